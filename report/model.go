@@ -1,0 +1,175 @@
+package report
+
+// Audit is the whole report document: what report.json holds, and what the
+// CSV, GeoJSON and HTML writers render. It is plain data, filled by the
+// audit (cmd/gnomon) from the findings of package solarcheck, so each writer
+// can be tested with a hand-made Audit.
+//
+// Times are RFC 3339 strings (UTC unless the field name says local), angles
+// are degrees, offsets are seconds. Optional numbers are pointers: nil means
+// "not known", which is different from zero.
+type Audit struct {
+	Schema  string   `json:"schema"` // always SchemaID
+	Tool    Tool     `json:"tool"`
+	Run     Run      `json:"run"`
+	Photos  []Photo  `json:"photos"`  // sorted by Path
+	Cameras []Camera `json:"cameras"` // sorted by ID
+}
+
+// SchemaID names the version of this document's layout.
+const SchemaID = "gnomon.audit/1"
+
+// Tool identifies the program that wrote the report.
+type Tool struct {
+	Name      string `json:"name"`
+	Version   string `json:"version"`
+	GoVersion string `json:"go_version"`
+}
+
+// Run records how the report was made, so that it can be reproduced.
+// Started and Finished are the only wall-clock fields in the document;
+// SOURCE_DATE_EPOCH pins both.
+type Run struct {
+	Started        string   `json:"started"`
+	Finished       string   `json:"finished"`
+	CommandLine    []string `json:"command_line"`
+	Inputs         []string `json:"inputs"`
+	ShadowSheet    string   `json:"shadow_sheet,omitempty"`
+	ShadowSheetSHA string   `json:"shadow_sheet_sha256,omitempty"`
+	DeltaTModel    string   `json:"delta_t_model"`
+	TZDataVersion  string   `json:"tzdata_version"`
+	ZoneMapVersion string   `json:"zone_map_version"`
+	MagneticModel  string   `json:"magnetic_model"`
+	SelfTest       SelfTest `json:"self_test"`
+	Counts         Counts   `json:"counts"`
+	SheetErrors    []string `json:"sheet_errors"` // "file:line:column: reason"
+	Notes          []string `json:"notes"`
+}
+
+// SelfTest is the result of the built-in reference checks run before the audit.
+type SelfTest struct {
+	Passed bool        `json:"passed"`
+	Checks []SelfCheck `json:"checks"`
+}
+
+// SelfCheck is one built-in reference check.
+type SelfCheck struct {
+	Name   string `json:"name"`
+	Source string `json:"source"` // the published reference it is checked against
+	Passed bool   `json:"passed"`
+	Detail string `json:"detail"`
+}
+
+// Counts adds up the run: Files = sum of ByVerdict.
+type Counts struct {
+	Files     int            `json:"files"`
+	ByVerdict map[string]int `json:"by_verdict"`
+	Cameras   int            `json:"cameras_modelled"`
+}
+
+// Photo is everything the report says about one file.
+type Photo struct {
+	Path         string   `json:"path"` // relative to its input root, slash-separated
+	Root         string   `json:"root"` // the input root as given on the command line
+	SHA256       string   `json:"sha256"`
+	Size         int64    `json:"size"`
+	Container    string   `json:"container"`
+	Camera       string   `json:"camera"`        // camera id, as in Camera.ID; "" when unknown
+	ClaimedLocal string   `json:"claimed_local"` // the wall time as the camera wrote it, with sub-seconds
+	ClaimSource  string   `json:"claim_source"`  // which rule decided the claimed instant
+	Zone         string   `json:"zone"`          // IANA name of the place's zone
+	ZoneOptions  []string `json:"zone_candidates"`
+	ClaimedUTC   string   `json:"claimed_utc"`
+	Lat          *float64 `json:"lat"`
+	Lon          *float64 `json:"lon"`
+	Sun          *SunAt   `json:"sun"` // at the claimed moment and place
+	Checks       []Check  `json:"checks"`
+
+	Verdict              string        `json:"verdict"`
+	OffsetS              *float64      `json:"offset_s"` // claimed minus evidence
+	OffsetLowS           *float64      `json:"offset_low_s"`
+	OffsetHighS          *float64      `json:"offset_high_s"`
+	CorrectedUTCEarliest string        `json:"corrected_utc_earliest"`
+	CorrectedUTCLatest   string        `json:"corrected_utc_latest"`
+	Explanation          string        `json:"explanation"`
+	Rejected             []Alternative `json:"rejected_explanations"`
+	Error                string        `json:"error"` // why a file could not be read; "" when fine
+
+	// ShadowFix is the place the shadows give at the GPS time, if any.
+	ShadowFix *Fix `json:"shadow_fix"`
+	// Measured are the sun directions the examiner's sheet gave for this photo.
+	Measured []Measured `json:"measured"`
+
+	// Thumbnail is the thumbnail's path relative to the report folder, or "".
+	Thumbnail string `json:"-"`
+	// SunPath is the sun's track over the claimed day, for the HTML chart.
+	SunPath []SunAt `json:"-"`
+	// BestFit is the sun at the best-fitting shadow time, for the HTML chart.
+	BestFit *SunAt `json:"-"`
+}
+
+// SunAt is a sun position; Time is RFC 3339 UTC ("" when not meaningful).
+type SunAt struct {
+	Time     string  `json:"time,omitempty"`
+	Azimuth  float64 `json:"azimuth"`
+	Altitude float64 `json:"altitude"`
+}
+
+// Measured is one sun direction derived from the sheet, with 1-sigma
+// uncertainties, for charts and the evidence table.
+type Measured struct {
+	Object      string  `json:"object"`
+	Azimuth     float64 `json:"azimuth"`
+	AzimuthSD   float64 `json:"azimuth_sd"`
+	Altitude    float64 `json:"altitude"`
+	AltitudeSD  float64 `json:"altitude_sd"`
+	HasAltitude bool    `json:"has_altitude"`
+}
+
+// Check is the result of one independent check on one photo.
+type Check struct {
+	Kind        string   `json:"kind"`
+	Status      string   `json:"status"`
+	Figure      *float64 `json:"figure"`
+	Unit        string   `json:"unit"`
+	Uncertainty *float64 `json:"uncertainty"` // half-width of the 95 % interval, same unit
+	Sentence    string   `json:"sentence"`
+}
+
+// Alternative is an explanation that was tested and rejected, with why.
+type Alternative struct {
+	Verdict string `json:"verdict"`
+	Reason  string `json:"reason"`
+}
+
+// Fix is a position with an uncertainty radius.
+type Fix struct {
+	Lat      float64 `json:"lat"`
+	Lon      float64 `json:"lon"`
+	RadiusKm float64 `json:"radius_km"`
+}
+
+// Camera is one camera's clock model across the batch.
+type Camera struct {
+	ID           string       `json:"id"`
+	Photos       int          `json:"photos"`
+	OffsetS      *float64     `json:"offset_s"`
+	OffsetSDs    *float64     `json:"offset_sd_s"`
+	DriftSPerDay *float64     `json:"drift_s_per_day"`
+	DriftPPM     *float64     `json:"drift_ppm"`
+	Outliers     []string     `json:"outliers"` // photo paths that disagree with the model
+	Resets       []string     `json:"resets"`   // photo paths where the clock appears to have been reset
+	OrderBreaks  []string     `json:"order_breaks"`
+	Points       []ClockPoint `json:"points"`
+	Note         string       `json:"note"`
+}
+
+// ClockPoint is one photo's measured offset on a camera's clock chart.
+type ClockPoint struct {
+	Path       string  `json:"path"`
+	ClaimedUTC string  `json:"claimed_utc"`
+	OffsetS    float64 `json:"offset_s"`
+	LowS       float64 `json:"low_s"`
+	HighS      float64 `json:"high_s"`
+	Outlier    bool    `json:"outlier"`
+}
