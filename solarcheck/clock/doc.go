@@ -1,0 +1,61 @@
+// Package clock models one camera's clock across a batch of photos: its
+// offset from true time, its drift, resets, photos that disagree with the
+// model, and shot order that contradicts the file numbering.
+//
+// Input is, per camera (see CameraID), one Point per photo: the instant its
+// clock claimed, and — when the photo has independent evidence such as
+// shadows or a GPS time — the measured offset (claimed minus evidence, in
+// seconds) with its 95 % half-width.
+//
+// Methods:
+//
+//   - Drift and offset: the Theil–Sen estimator (Theil 1950; Sen 1968). The
+//     slope is the median of the slopes between all pairs of evidence points
+//     with distinct claimed times; the offset is the median of the points'
+//     offsets after removing that slope, referred to the median claimed time
+//     of the segment's evidence (which makes offset and slope nearly
+//     uncorrelated). Theil–Sen has a breakdown point of about 29 %: up to
+//     that share of arbitrarily wrong points cannot carry the slope away
+//     (Sen 1968).
+//   - Slope interval: Sen's (1968) distribution-free 95 % interval from the
+//     null distribution of Kendall's S, in the normal approximation
+//     Var(S) = n(n−1)(2n+5)/18 (no tie correction), ranks
+//     M1 = (N − C)/2 and M2 = (N + C)/2 + 1 among the N ordered pairwise
+//     slopes with C = 1.96·√Var(S); written out in Gilbert (1987),
+//     "Statistical Methods for Environmental Pollution Monitoring", §16.5
+//     (from memory). With fewer than 5 points (n = 4: M1 < 1) it is not
+//     defined; the model then assumes the drift is within ±AssumedDriftBound
+//     (a quartz watch crystal's tolerance of order ±20 ppm, about ±2 s/day:
+//     common knowledge, not measured for any camera).
+//   - Offset uncertainty: the scatter σ = 1.4826·MAD of the residuals (MAD
+//     scaled to a normal σ), but never less than the median of the points' own
+//     σ; the median's standard error is √(π/2)·σ/√n ≈ 1.2533·σ/√n for normal
+//     errors. The prediction half-width at a claimed time t is
+//     √(h_offset² + (h_slope·|t − t0|)²), treating both as independent.
+//   - Resets: binary segmentation on Theil–Sen residuals: the split that
+//     maximises the difference of the medians on either side (each side at
+//     least MinSegment evidence points) is accepted when that step exceeds
+//     both MinStep and ResetK robust σ of the successive residual
+//     differences; each side is refitted and split again. A jump followed by
+//     too few points to form a segment is reported as outliers, not a reset.
+//   - Outliers ("possible edits"): a point whose residual exceeds both
+//     OutlierK·σ and its own 95 % half-width plus the model's.
+//   - Order: photos sorted by claimed time, compared with the trailing digits
+//     of the file's base name (DSC_0012 → 12); a backward step of less than
+//     half the counter's range is a contradiction, a larger one is read as the
+//     counter wrapping (9999 → 0001).
+//
+// Every photo of a modelled segment, with or without evidence, gets a
+// corrected UTC instant: corrected = claimed − (offset + drift·(t − t0)),
+// with the prediction half-width. A photo whose claimed time falls between
+// two segments (or in two at once) is not corrected: which side of the reset
+// it lies on is unknown.
+//
+// Cost: O(n² log n) time and about 4·n² bytes for the n evidence points of
+// one camera (n = 300 takes a few tens of milliseconds).
+//
+// Limits: the model is linear within a segment (temperature effects and
+// manual adjustments by less than MinStep are not resolved); evidence points
+// are taken as independent; claimed times are assumed to be the clock's own
+// readings converted to UTC with one fixed zone offset per segment.
+package clock
