@@ -1,0 +1,520 @@
+package invert
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"runtime"
+	"sort"
+	"sync"
+	"time"
+
+	"github.com/gnomon-forensics/gnomon/solarcheck/shadow"
+	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
+)
+
+// ErrInvalid marks a query that cannot be answered as asked (no angle
+// measured, a non-positive uncertainty, an empty or over-long range).
+// Errors wrap it; test with errors.Is.
+var ErrInvalid = errors.New("invalid inverse query")
+
+// Chi-square 95 % points for one and two degrees of freedom (any statistics
+// handbook; e.g. NIST/SEMATECH e-Handbook, table of chi-square critical values).
+const (
+	Chi2Dof1P95 = 3.841
+	Chi2Dof2P95 = 5.991
+)
+
+const deg = math.Pi / 180
+
+// skySDDeg is σ_sky of the package doc: the uncertainty of the sun's
+// position itself, which makes azimuth meaningless near the zenith.
+const skySDDeg = 0.01
+
+// horizonScaleDeg is the scale of the below-horizon penalty.
+const horizonScaleDeg = 0.01
+
+// MaxRange is the longest date range When accepts: the search keeps a
+// handful of numbers per minute of range in flight and sensible questions
+// span days to a few years.
+const MaxRange = 3*366*24*time.Hour + 24*time.Hour
+
+// gridStep is the screening resolution.
+const gridStep = time.Minute
+
+// Measurement is what the examiner measured of the sun: its azimuth
+// (degrees clockwise from true north) and/or its apparent altitude
+// (refracted, of the centre of the disc), each with a 1-sigma error.
+type Measurement struct {
+	HasAzimuth   bool
+	AzimuthDeg   float64
+	AzimuthSDDeg float64
+
+	HasAltitude   bool
+	AltitudeDeg   float64
+	AltitudeSDDeg float64
+
+	// Correlation of the azimuth and altitude errors, −1 < ρ < 1; zero
+	// unless both come from one shadow on sloped ground.
+	Correlation float64
+
+	// BelowHorizonOK lets times with the sun below the horizon match. It
+	// is false for anything seen in a photograph (a shadow needs the sun up).
+	BelowHorizonOK bool
+}
+
+// FromShadow turns a shadow estimate (package shadow) into a measurement
+// of both angles with their propagated errors and correlation.
+func FromShadow(e shadow.Estimate) Measurement {
+	return Measurement{
+		HasAzimuth: true, AzimuthDeg: e.Sun.AzimuthDeg, AzimuthSDDeg: e.AzimuthSDDeg,
+		HasAltitude: true, AltitudeDeg: e.Sun.AltitudeDeg, AltitudeSDDeg: e.AltitudeSDDeg,
+		Correlation: e.Correlation,
+	}
+}
+
+// Dof returns the degrees of freedom of the misfit: the number of angles measured.
+func (m Measurement) Dof() int {
+	n := 0
+	if m.HasAzimuth {
+		n++
+	}
+	if m.HasAltitude {
+		n++
+	}
+	return n
+}
+
+// Threshold returns the 95 % chi-square point for m's degrees of freedom.
+func (m Measurement) Threshold() float64 {
+	if m.Dof() == 2 {
+		return Chi2Dof2P95
+	}
+	return Chi2Dof1P95
+}
+
+func (m Measurement) check() error {
+	if m.Dof() == 0 {
+		return fmt.Errorf("no azimuth or altitude measured: %w", ErrInvalid)
+	}
+	if m.HasAzimuth && (!(m.AzimuthSDDeg > 0) || math.IsInf(m.AzimuthSDDeg, 0) || math.IsNaN(m.AzimuthDeg) || math.IsInf(m.AzimuthDeg, 0)) {
+		return fmt.Errorf("azimuth %g° ± %g°: want a finite angle and sd > 0: %w", m.AzimuthDeg, m.AzimuthSDDeg, ErrInvalid)
+	}
+	if m.HasAltitude && (!(m.AltitudeSDDeg > 0) || math.IsInf(m.AltitudeSDDeg, 0) || !(m.AltitudeDeg >= -90 && m.AltitudeDeg <= 90)) {
+		return fmt.Errorf("altitude %g° ± %g°: want −90..90 and sd > 0: %w", m.AltitudeDeg, m.AltitudeSDDeg, ErrInvalid)
+	}
+	if !(m.Correlation > -1 && m.Correlation < 1) {
+		return fmt.Errorf("correlation %g: want −1 < ρ < 1: %w", m.Correlation, ErrInvalid)
+	}
+	return nil
+}
+
+// chi2 is the misfit of a sun at (azDeg, altDeg) against m (package doc).
+func (m *Measurement) chi2(azDeg, altDeg float64) float64 {
+	return m.chi2c(azDeg, altDeg, math.Cos(altDeg*deg))
+}
+
+// chi2c is chi2 with the cosine of the altitude supplied by the caller.
+func (m *Measurement) chi2c(azDeg, altDeg, c float64) float64 {
+	var dAz, dAlt, rho float64
+	if m.HasAzimuth {
+		if c < 1e-9 {
+			c = 1e-9
+		}
+		f := skySDDeg / c
+		sd := math.Sqrt(m.AzimuthSDDeg*m.AzimuthSDDeg + f*f)
+		dAz = wrap180(azDeg-m.AzimuthDeg) / sd
+		rho = m.Correlation * m.AzimuthSDDeg / sd
+	}
+	if m.HasAltitude {
+		dAlt = (altDeg - m.AltitudeDeg) / m.AltitudeSDDeg
+	}
+	chi := dAz*dAz + dAlt*dAlt
+	if rho != 0 {
+		chi = (chi - 2*rho*dAz*dAlt) / (1 - rho*rho)
+	}
+	if !m.BelowHorizonOK && altDeg < 0 {
+		p := altDeg / horizonScaleDeg
+		chi += p * p
+	}
+	return chi
+}
+
+// Query is a When search: a place, a range of time and a measurement.
+type Query struct {
+	// Observer is the place and atmosphere. Its PressureHPa is used as
+	// given (zero = no refraction); spa.NewObserver sets the standard one.
+	Observer spa.Observer
+	// From and To bound the search, [From, To]. Callers turn calendar
+	// dates in a zone into instants (see DayRange).
+	From, To    time.Time
+	Measurement Measurement
+	// DeltaT gives ΔT in seconds for an instant; nil means spa.DeltaT.
+	DeltaT func(time.Time) float64
+}
+
+// Window is one interval of time in which the sun matched the measurement
+// at the 95 % level (package doc).
+type Window struct {
+	Best     time.Time // least misfit, to about 1 s
+	Earliest time.Time // first time inside the 95 % window
+	Latest   time.Time // last time inside the 95 % window
+	// Sun at Best by the full spa.At: azimuth (true north) and refracted altitude.
+	AzimuthDeg  float64
+	AltitudeDeg float64
+	Misfit      float64 // χ² at Best
+	// StartsBefore / EndsAfter report that the window was cut by the
+	// searched range: the sun matched before From or after To too.
+	StartsBefore bool
+	EndsAfter    bool
+}
+
+// DayRange returns the instants bounding the calendar days from..to
+// (inclusive) in loc: from's midnight to the last instant before the
+// midnight after to. Daylight-saving days are 23 or 25 hours long.
+func DayRange(fromY int, fromM time.Month, fromD int, toY int, toM time.Month, toD int, loc *time.Location) (time.Time, time.Time) {
+	start := time.Date(fromY, fromM, fromD, 0, 0, 0, 0, loc)
+	end := time.Date(toY, toM, toD+1, 0, 0, 0, 0, loc).Add(-time.Second)
+	return start, end
+}
+
+// searcher holds one When search.
+type searcher struct {
+	m              Measurement
+	thr            float64
+	o              spa.Observer
+	eph            *ephem
+	spanS          float64
+	stepS          float64
+	n              int // grid points 0..n
+	sinPhi, cosPhi float64
+	// maxRefrDeg bounds the refraction SPA applies for this atmosphere
+	// (its value at the lowest altitude it corrects, Eq. 42).
+	maxRefrDeg float64
+}
+
+// When finds every window in [q.From, q.To] in which the sun, seen from
+// q.Observer, matched q.Measurement at the 95 % level. The method is in the
+// package doc. An empty result means no time in the range fits.
+func When(q Query) ([]Window, error) {
+	if err := q.Measurement.check(); err != nil {
+		return nil, err
+	}
+	o := q.Observer
+	if !(o.LatDeg >= -90 && o.LatDeg <= 90) || math.IsNaN(o.LonDeg) || math.IsInf(o.LonDeg, 0) {
+		return nil, fmt.Errorf("observer at %g°, %g°: %w", o.LatDeg, o.LonDeg, ErrInvalid)
+	}
+	span := q.To.Sub(q.From)
+	if span < 0 {
+		return nil, fmt.Errorf("range %s to %s runs backwards: %w", q.From.Format(time.RFC3339), q.To.Format(time.RFC3339), ErrInvalid)
+	}
+	if span < time.Minute {
+		return nil, fmt.Errorf("range of %s is shorter than the 1-minute search step: %w", span, ErrInvalid)
+	}
+	if span > MaxRange {
+		return nil, fmt.Errorf("range of %.0f days exceeds the %.0f-day limit: %w", span.Hours()/24, MaxRange.Hours()/24, ErrInvalid)
+	}
+	dt := q.DeltaT
+	if dt == nil {
+		dt = spa.DeltaT
+	}
+	s := &searcher{m: q.Measurement, thr: q.Measurement.Threshold(), o: o, spanS: span.Seconds()}
+	s.sinPhi, s.cosPhi = math.Sincos(o.LatDeg * deg)
+	s.maxRefrDeg = max(0, spa.Refraction(-0.8333, o.PressureHPa, o.TemperatureC)) + 0.01
+	s.n = int(math.Ceil(s.spanS / gridStep.Seconds()))
+	if s.n < 1 {
+		s.n = 1
+	}
+	s.stepS = s.spanS / float64(s.n)
+	s.eph = newEphem(q.From, s.spanS, dt)
+
+	seeds := s.screen()
+	wins := s.refine(seeds)
+	out := make([]Window, 0, len(wins))
+	for _, w := range wins {
+		// Times are good to about a second: report whole seconds.
+		best := q.From.Add(time.Duration(math.Round(w.best * 1e9))).Round(time.Second)
+		p := spa.At(best, o, dt(best))
+		out = append(out, Window{
+			Best:         best.UTC(),
+			Earliest:     q.From.Add(time.Duration(math.Round(w.lo * 1e9))).Round(time.Second).UTC(),
+			Latest:       q.From.Add(time.Duration(math.Round(w.hi * 1e9))).Round(time.Second).UTC(),
+			AzimuthDeg:   p.AzimuthDeg,
+			AltitudeDeg:  p.AltitudeDeg,
+			Misfit:       s.m.chi2(p.AzimuthDeg, p.AltitudeDeg),
+			StartsBefore: w.lo <= 0,
+			EndsAfter:    w.hi >= s.spanS,
+		})
+	}
+	return out, nil
+}
+
+// gridS is the time of grid point k in seconds since From.
+func (s *searcher) gridS(k int) float64 {
+	if k >= s.n {
+		return s.spanS
+	}
+	return float64(k) * s.stepS
+}
+
+// cheap is the screening misfit: geocentric, interpolated, with SPA's
+// refraction and without parallax.
+func (s *searcher) cheap(t float64) float64 {
+	ra, dec, sid := s.eph.raDecSid(t)
+	sinH, cosH := math.Sincos((sid + s.o.LonDeg - ra) * deg)
+	sinD, cosD := math.Sincos(dec * deg)
+	alt0 := math.Asin(s.sinPhi*sinD+s.cosPhi*cosD*cosH) / deg
+	alt := alt0 + spa.Refraction(alt0, s.o.PressureHPa, s.o.TemperatureC)
+	var az float64
+	if s.m.HasAzimuth {
+		az = math.Atan2(sinH, cosH*s.sinPhi-sinD/cosD*s.cosPhi)/deg + 180 // SPA Eq. 45–46 without parallax
+	}
+	return s.m.chi2(az, alt)
+}
+
+// precise is the refinement misfit: interpolated geocentric quantities
+// through SPA's topocentric part.
+func (s *searcher) precise(t float64) float64 {
+	p := s.eph.geocentric(t).Topocentric(s.o)
+	return s.m.chi2(p.AzimuthDeg, p.AltitudeDeg)
+}
+
+// screen evaluates the cheap misfit on the grid in parallel and returns
+// the grid-local minima, sorted.
+func (s *searcher) screen() []int {
+	workers := runtime.GOMAXPROCS(0)
+	if workers > 8 {
+		workers = 8
+	}
+	per := (s.n + 1 + workers - 1) / workers
+	res := make([][]int, workers)
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		a, b := w*per, min((w+1)*per, s.n+1) // grid indices [a, b)
+		if a >= b {
+			continue
+		}
+		wg.Add(1)
+		go func(w, a, b int) {
+			defer wg.Done()
+			// vals[i] is the misfit at grid index a−1+i; outside the
+			// grid it is +Inf so that the ends can be minima.
+			lo, hi := max(a-1, 0), min(b, s.n) // evaluated indices [lo, hi]
+			vals := make([]float64, b-a+2)
+			for i := range vals {
+				vals[i] = math.Inf(1)
+			}
+			s.cheapGrid(lo, hi, vals[lo-(a-1):])
+			var seeds []int
+			for k := a; k < b; k++ {
+				i := k - (a - 1)
+				if vals[i] < vals[i-1] && vals[i] <= vals[i+1] {
+					seeds = append(seeds, k)
+				}
+			}
+			res[w] = seeds
+		}(w, a, b)
+	}
+	wg.Wait()
+	var all []int
+	for _, r := range res {
+		all = append(all, r...)
+	}
+	return all
+}
+
+// sunRateDegPerS bounds how fast the sun's altitude can change: its
+// diurnal motion on the sky is 15.041°/h × cos δ at most (one turn per
+// sidereal day), and no component of a motion is faster than the motion.
+const sunRateDegPerS = 15.05 / 3600
+
+// blockCannotMatch reports whether no time in a screening block can have a
+// misfit below the threshold, from the airless altitudes at its two ends:
+// inside the block the altitude stays within ±(rate × half the block) of
+// their mean, and refraction raises it by at most its value at the
+// horizon. Such blocks (night for a visible sun; hours when the altitude
+// is far from a measured one) are not evaluated point by point. χ² is at
+// least d_alt² whatever the azimuth term and correlation, so the test
+// only looks at the altitude.
+func (s *searcher) blockCannotMatch(sinDA, cosDA, cosHA, sinDB, cosDB, cosHB, durS float64) bool {
+	altA := math.Asin(max(-1, min(1, s.sinPhi*sinDA+s.cosPhi*cosDA*cosHA))) / deg
+	altB := math.Asin(max(-1, min(1, s.sinPhi*sinDB+s.cosPhi*cosDB*cosHB))) / deg
+	half := sunRateDegPerS * durS / 2
+	lo := (altA+altB)/2 - half - 0.001 // SPA's refraction is slightly negative at the zenith
+	hi := (altA+altB)/2 + half + s.maxRefrDeg
+	if !s.m.BelowHorizonOK && hi < -0.2 { // penalty ≥ (0.2/0.01)² everywhere
+		return true
+	}
+	if s.m.HasAltitude {
+		d := max(0, lo-s.m.AltitudeDeg, s.m.AltitudeDeg-hi) / s.m.AltitudeSDDeg
+		if d*d > s.thr+1 {
+			return true
+		}
+	}
+	return false
+}
+
+// screenBlock is the number of grid steps over which cheapGrid treats the
+// hour angle as linear in time and the declination's sine and cosine as
+// linear: over an hour the hour angle departs from a straight line by
+// about 1e-8° and the declination moves by at most 0.017°, so the
+// linear forms are good to 1e-7°.
+const screenBlock = 60
+
+// cheapGrid fills out[k−lo] with the cheap misfit at grid indices
+// lo..hi. It evaluates the interpolated ephemeris only at block ends and
+// steps the hour angle's sine and cosine by rotation in between, which
+// makes the screen several times faster than calling cheap per point.
+func (s *searcher) cheapGrid(lo, hi int, out []float64) {
+	sinPhi, cosPhi := s.sinPhi, s.cosPhi
+	p, tc := s.o.PressureHPa, s.o.TemperatureC
+	for kb := lo; kb <= hi; kb += screenBlock {
+		ke := min(kb+screenBlock, hi)
+		ta, tb := s.gridS(kb), s.gridS(ke)
+		raA, decA, sidA := s.eph.raDecSid(ta)
+		raB, decB, sidB := s.eph.raDecSid(tb)
+		hA := sidA + s.o.LonDeg - raA
+		hB := sidB + s.o.LonDeg - raB
+		hB = unwrapNear(hB, hA+(tb-ta)*siderealRateDeg/86400)
+		sinDA, cosDA := math.Sincos(decA * deg)
+		sinDB, cosDB := math.Sincos(decB * deg)
+		steps := ke - kb
+		var dH, dSin, dCos float64
+		if steps > 0 {
+			dH = (hB - hA) / float64(steps) * deg
+			dSin, dCos = (sinDB-sinDA)/float64(steps), (cosDB-cosDA)/float64(steps)
+		}
+		rs, rc := math.Sincos(dH)
+		sinH, cosH := math.Sincos(hA * deg)
+		if s.blockCannotMatch(sinDA, cosDA, cosH, sinDB, cosDB, math.Cos(hB*deg), tb-ta) {
+			for j := 0; j <= steps; j++ {
+				if j == steps && ke != hi {
+					break
+				}
+				out[kb-lo+j] = math.Inf(1)
+			}
+			continue
+		}
+		for j := 0; j <= steps; j++ {
+			if j == steps && ke != hi {
+				break // the next block starts here
+			}
+			sinD := sinDA + float64(j)*dSin
+			cosD := cosDA + float64(j)*dCos
+			x := sinPhi*sinD + cosPhi*cosD*cosH
+			alt0 := math.Asin(max(-1, min(1, x))) / deg
+			alt := alt0 + spa.Refraction(alt0, p, tc)
+			var az float64
+			if s.m.HasAzimuth {
+				az = math.Atan2(sinH, cosH*sinPhi-sinD/cosD*cosPhi)/deg + 180 // SPA Eq. 45–46 without parallax
+			}
+			out[kb-lo+j] = s.m.chi2c(az, alt, math.Sqrt(max(0, 1-x*x))) // cos of the airless altitude
+			sinH, cosH = sinH*rc+cosH*rs, cosH*rc-sinH*rs
+		}
+	}
+}
+
+type interval struct{ lo, hi, best, chi float64 }
+
+// refine turns grid seeds into windows (package doc, step 3).
+func (s *searcher) refine(seeds []int) []interval {
+	var wins []interval
+	for _, k := range seeds {
+		a := s.gridS(max(k-1, 0))
+		b := s.gridS(min(k+1, s.n))
+		t, chi := s.golden(a, b)
+		if chi >= s.thr {
+			continue
+		}
+		if n := len(wins); n > 0 && t <= wins[n-1].hi {
+			if chi < wins[n-1].chi {
+				wins[n-1].best, wins[n-1].chi = t, chi
+			}
+			continue
+		}
+		wins = append(wins, interval{lo: s.edge(t, -1), hi: s.edge(t, +1), best: t, chi: chi})
+	}
+	// Merge any overlaps left by disagreement between the two models.
+	sort.Slice(wins, func(i, j int) bool { return wins[i].lo < wins[j].lo })
+	var out []interval
+	for _, w := range wins {
+		if n := len(out); n > 0 && w.lo <= out[n-1].hi {
+			last := &out[n-1]
+			last.hi = math.Max(last.hi, w.hi)
+			if w.chi < last.chi {
+				last.best, last.chi = w.best, w.chi
+			}
+			continue
+		}
+		out = append(out, w)
+	}
+	return out
+}
+
+// golden minimises the precise misfit on [a, b] by golden-section search
+// to about 0.5 s and returns the minimiser and the minimum; the ends of
+// the bracket are candidates too.
+func (s *searcher) golden(a, b float64) (float64, float64) {
+	const r = 0.6180339887498949
+	fa, fb := s.precise(a), s.precise(b)
+	c, d := b-r*(b-a), a+r*(b-a)
+	fc, fd := s.precise(c), s.precise(d)
+	for b-a > 0.5 {
+		if fc < fd {
+			b, d, fd = d, c, fc
+			c = b - r*(b-a)
+			fc = s.precise(c)
+		} else {
+			a, c, fc = c, d, fd
+			d = a + r*(b-a)
+			fd = s.precise(d)
+		}
+	}
+	t, f := c, fc
+	if fd < f {
+		t, f = d, fd
+	}
+	if fa < f {
+		t, f = a, fa
+	}
+	if fb < f {
+		t, f = b, fb
+	}
+	return t, f
+}
+
+// edge walks the grid from inside (misfit below threshold) in direction
+// dir until the misfit reaches the threshold, then bisects the last step
+// with the precise model to about 0.5 s. It returns the last inside time,
+// or the end of the range if the window runs past it.
+func (s *searcher) edge(in float64, dir int) float64 {
+	for {
+		var k int
+		if dir > 0 { // the tolerance keeps a point on the grid from finding itself
+			k = int(math.Floor(in/s.stepS+1e-9)) + 1
+		} else {
+			k = int(math.Ceil(in/s.stepS-1e-9)) - 1
+		}
+		if k < 0 || k > s.n {
+			if dir > 0 {
+				return s.spanS
+			}
+			return 0
+		}
+		next := s.gridS(k)
+		if s.cheap(next) < s.thr || s.precise(next) < s.thr {
+			in = next
+			continue
+		}
+		out := next
+		for math.Abs(out-in) > 0.5 {
+			mid := (in + out) / 2
+			if s.precise(mid) < s.thr {
+				in = mid
+			} else {
+				out = mid
+			}
+		}
+		return in
+	}
+}

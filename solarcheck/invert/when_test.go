@@ -1,0 +1,393 @@
+package invert
+
+import (
+	"errors"
+	"math"
+	"math/rand/v2"
+	"testing"
+	"time"
+
+	"github.com/gnomon-forensics/gnomon/solarcheck/shadow"
+	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
+)
+
+// srcRT names the witness of every round trip: the forward model is spa.At,
+// which package spa checks against the SPA report (Table A5.1) and an
+// astropy-generated table.
+const srcRT = "round trip through spa (itself checked against the SPA report and astropy)"
+
+func sunAt(lat, lon float64, t time.Time) spa.Position {
+	return spa.At(t, spa.NewObserver(lat, lon, 0), spa.DeltaT(t))
+}
+
+func utcDay(t time.Time) (time.Time, time.Time) {
+	y, m, d := t.UTC().Date()
+	return DayRange(y, m, d, y, m, d, time.UTC)
+}
+
+// The interpolated ephemeris must reproduce full SPA far inside SPA's own
+// ±0.0003°.
+func TestEphemMatchesSPA(t *testing.T) {
+	t0 := time.Date(2023, 12, 30, 0, 0, 0, 0, time.UTC)
+	span := 400 * 24 * time.Hour
+	e := newEphem(t0, span.Seconds(), spa.DeltaT)
+	r := rand.New(rand.NewPCG(3, 4))
+	for i := 0; i < 3000; i++ {
+		s := r.Float64() * span.Seconds()
+		ts := t0.Add(time.Duration(s * 1e9))
+		o := spa.NewObserver(r.Float64()*180-90, r.Float64()*360-180, 0)
+		got := e.geocentric(s).Topocentric(o)
+		want := spa.At(ts, o, spa.DeltaT(ts))
+		dAz := math.Abs(wrap180(got.AzimuthDeg-want.AzimuthDeg)) * math.Cos(want.AltitudeDeg*deg)
+		if dAz > 1e-5 || math.Abs(got.AltitudeDeg-want.AltitudeDeg) > 1e-5 {
+			t.Fatalf("%s: %s at %.2f,%.2f: interpolated az %.7f alt %.7f, spa.At %.7f %.7f",
+				srcRT, ts, o.LatDeg, o.LonDeg, got.AzimuthDeg, got.AltitudeDeg, want.AzimuthDeg, want.AltitudeDeg)
+		}
+	}
+}
+
+type whenCase struct {
+	source    string
+	name      string
+	lat, lon  float64
+	truth     time.Time
+	az, alt   bool    // which angles are "measured"
+	sd        float64 // sd of each measured angle
+	wantCount int     // windows expected in the UTC day of truth; −1: do not check
+	noMatch   bool    // expect nothing at all
+}
+
+func TestWhenRoundTrip(t *testing.T) {
+	tests := []whenCase{
+		{srcRT, "mid-latitude, both angles", 48.85, 2.35, time.Date(2024, 6, 3, 9, 17, 0, 0, time.UTC), true, true, 1, 1, false},
+		{srcRT + "; common knowledge: an altitude is reached twice a day, before and after noon", "mid-latitude, altitude only", 48.85, 2.35, time.Date(2024, 3, 3, 9, 17, 0, 0, time.UTC), false, true, 0.5, 2, false},
+		{srcRT, "southern hemisphere, azimuth only", -33.87, 151.21, time.Date(2024, 8, 14, 2, 40, 0, 0, time.UTC), true, false, 1, 1, false},
+		{srcRT + "; common knowledge: where the declination exceeds the latitude the azimuth turns back", "tropics 10° N in June: azimuth reversal", 10, -75, time.Date(2024, 6, 21, 11, 40, 0, 0, time.UTC), true, false, 0.1, 2, false},
+		{srcRT, "tropics 10° N in June: after the reversal", 10, -75, time.Date(2024, 6, 21, 13, 30, 0, 0, time.UTC), true, true, 0.2, 1, false},
+		{srcRT, "near the zenith, 23° N at the June solstice", 23, 90, time.Date(2024, 6, 21, 5, 50, 0, 0, time.UTC), true, true, 0.5, 1, false},
+		{srcRT, "equator at equinox, morning", 0.3, 36.8, time.Date(2024, 3, 20, 6, 30, 0, 0, time.UTC), true, true, 1, 1, false},
+		{srcRT, "high latitude in winter, low sun", 65, 25, time.Date(2024, 12, 10, 10, 0, 0, 0, time.UTC), true, true, 0.5, 1, false},
+		{srcRT + "; common knowledge: midnight sun at 78° N in June", "polar day: midnight sun, azimuth only", 78.2, 15.6, time.Date(2024, 6, 20, 23, 0, 0, 0, time.UTC), true, false, 1, -1, false},
+		{srcRT + "; common knowledge: midnight sun at 78° N in June", "polar day: altitude only", 78.2, 15.6, time.Date(2024, 6, 20, 8, 0, 0, 0, time.UTC), false, true, 0.5, 2, false},
+		{srcRT + "; common knowledge: polar night at 78° N in December", "polar night: nothing matches", 78.2, 15.6, time.Date(2024, 12, 20, 11, 0, 0, 0, time.UTC), true, true, 1, 0, true},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			p := sunAt(tc.lat, tc.lon, tc.truth)
+			m := Measurement{}
+			if tc.az {
+				m.HasAzimuth, m.AzimuthDeg, m.AzimuthSDDeg = true, p.AzimuthDeg, tc.sd
+			}
+			if tc.alt {
+				m.HasAltitude, m.AltitudeDeg, m.AltitudeSDDeg = true, p.AltitudeDeg, tc.sd
+			}
+			if tc.noMatch {
+				// The sun is below the horizon all day: ask for a
+				// daytime-looking direction instead of the true one.
+				m.AzimuthDeg, m.AltitudeDeg = 180, 5
+			}
+			from, to := utcDay(tc.truth)
+			ws, err := When(Query{Observer: spa.NewObserver(tc.lat, tc.lon, 0), From: from, To: to, Measurement: m})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if tc.noMatch {
+				if len(ws) != 0 {
+					t.Fatalf("%s: want no match, got %d: %+v", tc.source, len(ws), ws)
+				}
+				return
+			}
+			if tc.wantCount >= 0 && len(ws) != tc.wantCount {
+				t.Errorf("%s: %d windows, want %d: %+v", tc.source, len(ws), tc.wantCount, ws)
+			}
+			found := false
+			for _, w := range ws {
+				if w.Best.Before(w.Earliest) || w.Best.After(w.Latest) {
+					t.Errorf("%s: best %s outside [%s, %s]", tc.source, w.Best, w.Earliest, w.Latest)
+				}
+				if w.Misfit >= m.Threshold() {
+					t.Errorf("%s: misfit %.3f at best is not below %.3f", tc.source, w.Misfit, m.Threshold())
+				}
+				if !tc.truth.Before(w.Earliest) && !tc.truth.After(w.Latest) {
+					found = true
+					if d := w.Best.Sub(tc.truth); d.Abs() > 2*time.Second && tc.sd >= 0 && m.Dof() == 2 && !w.StartsBefore && !w.EndsAfter {
+						// With both angles measured exactly, the best time is the true time.
+						t.Errorf("%s: best %s, truth %s", tc.source, w.Best, tc.truth)
+					}
+				}
+			}
+			if !found {
+				t.Errorf("%s: no window contains the true time %s: %+v", tc.source, tc.truth, ws)
+			}
+		})
+	}
+}
+
+// Altitude only, measured just below the day's maximum: the morning and
+// afternoon solutions merge into one wide window around noon.
+func TestWhenNearNoonMerges(t *testing.T) {
+	const lat, lon = 40.0, -3.7
+	day := time.Date(2024, 5, 10, 0, 0, 0, 0, time.UTC)
+	// Find the transit by brute force with spa.At (1 s is plenty).
+	best, bestAlt := day, -90.0
+	for s := 0; s < 86400; s += 10 {
+		ts := day.Add(time.Duration(s) * time.Second)
+		if a := sunAt(lat, lon, ts).AltitudeDeg; a > bestAlt {
+			best, bestAlt = ts, a
+		}
+	}
+	m := Measurement{HasAltitude: true, AltitudeDeg: bestAlt - 0.3, AltitudeSDDeg: 1}
+	ws, err := When(Query{Observer: spa.NewObserver(lat, lon, 0), From: day, To: day.Add(24*time.Hour - time.Second), Measurement: m})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(ws) != 1 {
+		t.Fatalf("%s; common knowledge: altitude is flat at noon: want one merged window, got %+v", srcRT, ws)
+	}
+	w := ws[0]
+	if best.Before(w.Earliest) || best.After(w.Latest) {
+		t.Errorf("%s: transit %s outside [%s, %s]", srcRT, best, w.Earliest, w.Latest)
+	}
+	if w.Latest.Sub(w.Earliest) < 90*time.Minute {
+		t.Errorf("%s: near-noon window only %s wide", srcRT, w.Latest.Sub(w.Earliest))
+	}
+}
+
+// Windows from a shadow: forward with spa.At and package shadow, back with When.
+func TestWhenFromShadow(t *testing.T) {
+	tests := []struct {
+		source   string
+		lat, lon float64
+		truth    time.Time
+		ground   shadow.Ground
+	}{
+		{srcRT, 51.48, 0, time.Date(2024, 9, 12, 14, 5, 0, 0, time.UTC), shadow.Ground{}},
+		{srcRT, 51.48, 0, time.Date(2024, 9, 12, 14, 5, 0, 0, time.UTC), shadow.Ground{SlopeDeg: 12, TowardDeg: 20}},
+		{srcRT, -22.9, -43.2, time.Date(2024, 1, 5, 17, 45, 0, 0, time.UTC), shadow.Ground{SlopeDeg: 8, TowardDeg: 250}},
+	}
+	for _, tc := range tests {
+		p := sunAt(tc.lat, tc.lon, tc.truth)
+		l, b, err := shadow.ShadowFromSun(shadow.Sun{AzimuthDeg: p.AzimuthDeg, AltitudeDeg: p.AltitudeDeg}, 1.5, tc.ground)
+		if err != nil {
+			t.Fatal(err)
+		}
+		est, err := shadow.Propagate(shadow.Shadow{Height: 1.5, Length: l, BearingDeg: b, Ground: tc.ground},
+			shadow.Uncertainty{HeightSD: 0.01, LengthSDPct: 5, BearingSDDeg: 2})
+		if err != nil {
+			t.Fatal(err)
+		}
+		from, to := utcDay(tc.truth)
+		ws, err := When(Query{Observer: spa.NewObserver(tc.lat, tc.lon, 0), From: from, To: to, Measurement: FromShadow(est)})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(ws) != 1 || tc.truth.Before(ws[0].Earliest) || tc.truth.After(ws[0].Latest) || ws[0].Best.Sub(tc.truth).Abs() > 2*time.Second {
+			t.Errorf("%s: shadow %+v: windows %+v, truth %s", tc.source, tc.ground, ws, tc.truth)
+		}
+	}
+}
+
+// bruteWindows scans with full spa.At every stepS seconds and returns the
+// runs of consecutive samples below the threshold.
+func bruteWindows(o spa.Observer, from time.Time, n int, stepS int, m Measurement) [][2]time.Time {
+	var out [][2]time.Time
+	in := false
+	dt := spa.DeltaT(from)
+	for i := 0; i <= n; i++ {
+		ts := from.Add(time.Duration(i*stepS) * time.Second)
+		p := spa.At(ts, o, dt)
+		ok := m.chi2(p.AzimuthDeg, p.AltitudeDeg) < m.Threshold()
+		switch {
+		case ok && !in:
+			out = append(out, [2]time.Time{ts, ts})
+			in = true
+		case ok:
+			out[len(out)-1][1] = ts
+		default:
+			in = false
+		}
+	}
+	return out
+}
+
+// The fast search must find the same windows as a plain scan with full SPA
+// every 15 s (edges within a scan step and a second).
+func TestWhenMatchesBruteForce(t *testing.T) {
+	tests := []struct {
+		source   string
+		lat, lon float64
+		truth    time.Time
+		az, alt  bool
+		sd       float64
+	}{
+		{srcRT, 10, -75, time.Date(2024, 6, 21, 11, 40, 0, 0, time.UTC), true, false, 0.1},
+		{srcRT, 45, 7, time.Date(2024, 11, 2, 8, 40, 0, 0, time.UTC), false, true, 0.3},
+		{srcRT, 78.2, 15.6, time.Date(2024, 6, 20, 23, 0, 0, 0, time.UTC), true, true, 1},
+		{srcRT, 23, 90, time.Date(2024, 6, 21, 5, 50, 0, 0, time.UTC), true, false, 0.5},
+		{srcRT, -45, 170, time.Date(2024, 2, 2, 1, 0, 0, 0, time.UTC), true, true, 2},
+	}
+	for _, tc := range tests {
+		p := sunAt(tc.lat, tc.lon, tc.truth)
+		m := Measurement{HasAzimuth: tc.az, AzimuthDeg: p.AzimuthDeg, AzimuthSDDeg: tc.sd,
+			HasAltitude: tc.alt, AltitudeDeg: p.AltitudeDeg, AltitudeSDDeg: tc.sd}
+		from := time.Date(tc.truth.Year(), tc.truth.Month(), tc.truth.Day()-1, 0, 0, 0, 0, time.UTC)
+		const days, step = 3, 15
+		o := spa.NewObserver(tc.lat, tc.lon, 0)
+		ws, err := When(Query{Observer: o, From: from, To: from.Add(days*24*time.Hour - time.Second), Measurement: m})
+		if err != nil {
+			t.Fatal(err)
+		}
+		bw := bruteWindows(o, from, days*86400/step-1, step, m)
+		if len(ws) != len(bw) {
+			t.Errorf("%s at %.1f,%.1f: %d windows, brute force %d\n%+v\n%v", tc.source, tc.lat, tc.lon, len(ws), len(bw), ws, bw)
+			continue
+		}
+		for i := range ws {
+			tol := time.Duration(step+1) * time.Second
+			if ws[i].Earliest.Sub(bw[i][0]).Abs() > tol || ws[i].Latest.Sub(bw[i][1]).Abs() > tol {
+				t.Errorf("%s at %.1f,%.1f window %d: [%s, %s], brute force [%s, %s]", tc.source, tc.lat, tc.lon, i,
+					ws[i].Earliest, ws[i].Latest, bw[i][0], bw[i][1])
+			}
+		}
+	}
+}
+
+// Coverage: with measurement noise drawn from the stated sds, the 95 %
+// window should contain the true time about 95 % of the time.
+func TestWhenCoverage(t *testing.T) {
+	const source = "chi-square 95 % points (statistics handbook) with noise from seeded math/rand/v2"
+	r := rand.New(rand.NewPCG(11, 12))
+	const n = 200
+	hits := 0
+	for i := 0; i < n; i++ {
+		// A daytime instant with the sun between 10° and 80° up.
+		var truth, day time.Time
+		var p spa.Position
+		var lat, lon float64
+		for {
+			lat = r.Float64()*120 - 60
+			lon = r.Float64()*360 - 180
+			day = time.Date(2024, time.Month(1+r.IntN(12)), 1+r.IntN(28), 0, 0, 0, 0, time.UTC)
+			truth = day.Add(time.Duration(r.IntN(86400)) * time.Second)
+			p = sunAt(lat, lon, truth)
+			if p.AltitudeDeg > 10 && p.AltitudeDeg < 80 {
+				break
+			}
+		}
+		const sd = 1.0
+		m := Measurement{HasAzimuth: true, AzimuthDeg: p.AzimuthDeg + sd*r.NormFloat64(), AzimuthSDDeg: sd,
+			HasAltitude: true, AltitudeDeg: p.AltitudeDeg + sd*r.NormFloat64(), AltitudeSDDeg: sd}
+		ws, err := When(Query{Observer: spa.NewObserver(lat, lon, 0), From: day.Add(-12 * time.Hour), To: day.Add(36 * time.Hour), Measurement: m})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, w := range ws {
+			if !truth.Before(w.Earliest) && !truth.After(w.Latest) {
+				hits++
+				break
+			}
+		}
+	}
+	// Binomial(200, 0.95): sd 3.1 hits; 180 is more than 5 sd below the mean.
+	if hits < 180 {
+		t.Errorf("%s: %d of %d windows contain the true time, want about 95 %%", source, hits, n)
+	}
+	t.Logf("coverage %d/%d", hits, n)
+}
+
+func TestWhenErrors(t *testing.T) {
+	o := spa.NewObserver(45, 7, 0)
+	day := time.Date(2024, 1, 1, 0, 0, 0, 0, time.UTC)
+	good := Measurement{HasAzimuth: true, AzimuthDeg: 180, AzimuthSDDeg: 1}
+	tests := []struct {
+		source string
+		q      Query
+	}{
+		{"common knowledge: something must be measured", Query{Observer: o, From: day, To: day.Add(time.Hour)}},
+		{"common knowledge: an uncertainty is positive", Query{Observer: o, From: day, To: day.Add(time.Hour), Measurement: Measurement{HasAzimuth: true, AzimuthDeg: 180}}},
+		{"common knowledge: a range runs forward", Query{Observer: o, From: day, To: day.Add(-time.Hour), Measurement: good}},
+		{"package limit: the 1-minute search step", Query{Observer: o, From: day, To: day, Measurement: good}},
+		{"package limit MaxRange", Query{Observer: o, From: day, To: day.Add(MaxRange + time.Hour), Measurement: good}},
+		{"common knowledge: latitude is within ±90°", Query{Observer: spa.NewObserver(91, 0, 0), From: day, To: day.Add(time.Hour), Measurement: good}},
+	}
+	for _, tc := range tests {
+		if _, err := When(tc.q); !errors.Is(err, ErrInvalid) {
+			t.Errorf("%s: got %v, want ErrInvalid", tc.source, err)
+		}
+	}
+}
+
+// Only a visible sun matches unless told otherwise.
+func TestWhenSunMustBeUp(t *testing.T) {
+	const source = "common knowledge: at 49° N in June the sun is due north only at night, below the horizon"
+	o := spa.NewObserver(48.85, 2.35, 0)
+	from, to := utcDay(time.Date(2024, 6, 3, 0, 0, 0, 0, time.UTC))
+	m := Measurement{HasAzimuth: true, AzimuthDeg: 0, AzimuthSDDeg: 1}
+	ws, err := When(Query{Observer: o, From: from, To: to, Measurement: m})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(ws) != 0 {
+		t.Errorf("%s: got %+v", source, ws)
+	}
+	m.BelowHorizonOK = true
+	ws, err = When(Query{Observer: o, From: from, To: to, Measurement: m})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(ws) != 1 || ws[0].AltitudeDeg > -10 {
+		t.Errorf("%s: with BelowHorizonOK want one window deep below the horizon, got %+v", source, ws)
+	}
+}
+
+// FuzzWhen: arbitrary measurements over one day must not panic and must
+// return well-formed windows.
+func FuzzWhen(f *testing.F) {
+	f.Add(48.0, 2.0, 120.0, 1.0, 40.0, 1.0, uint8(3), int64(0))
+	f.Add(78.0, 15.0, 0.0, 0.5, 10.0, 0.2, uint8(1), int64(170))
+	f.Add(-5.0, 100.0, 200.0, 3.0, 85.0, 0.1, uint8(2), int64(80))
+	f.Fuzz(func(t *testing.T, lat, lon, az, azSD, alt, altSD float64, which uint8, day int64) {
+		if !(lat >= -90 && lat <= 90) || math.IsNaN(lon) || math.IsInf(lon, 0) || math.Abs(lon) > 1e4 {
+			return
+		}
+		m := Measurement{HasAzimuth: which&1 != 0, AzimuthDeg: az, AzimuthSDDeg: azSD,
+			HasAltitude: which&2 != 0, AltitudeDeg: alt, AltitudeSDDeg: altSD}
+		if math.Abs(az) > 1e6 || azSD > 1e3 || altSD > 1e3 || (m.HasAzimuth && azSD < 1e-3) || (m.HasAltitude && altSD < 1e-3) {
+			return
+		}
+		from := time.Date(2024, 1, 1, 0, 0, 0, 0, time.UTC).AddDate(0, 0, int(day%366))
+		ws, err := When(Query{Observer: spa.NewObserver(lat, lon, 0), From: from, To: from.Add(24 * time.Hour), Measurement: m})
+		if err != nil {
+			if !errors.Is(err, ErrInvalid) {
+				t.Fatalf("unexpected error kind: %v", err)
+			}
+			return
+		}
+		var prev time.Time
+		for _, w := range ws {
+			if w.Best.Before(w.Earliest) || w.Best.After(w.Latest) || w.Earliest.Before(prev) || w.Earliest.Before(from) || w.Latest.After(from.Add(24*time.Hour)) {
+				t.Fatalf("malformed windows %+v", ws)
+			}
+			if w.Misfit >= m.Threshold()*1.01 {
+				t.Fatalf("window with misfit %g: %+v", w.Misfit, w)
+			}
+			prev = w.Latest
+		}
+	})
+}
+
+// Near the pole in midsummer the sun circles at an almost constant
+// altitude, so an altitude-only match is continuous over days.
+func TestWhenContinuousPolarDay(t *testing.T) {
+	const source = "common knowledge: at the pole the sun's altitude equals its declination (about 23.4° at the June solstice)"
+	from := time.Date(2024, 6, 16, 0, 0, 0, 0, time.UTC)
+	to := time.Date(2024, 6, 26, 0, 0, 0, 0, time.UTC)
+	m := Measurement{HasAltitude: true, AltitudeDeg: 23.4, AltitudeSDDeg: 1}
+	ws, err := When(Query{Observer: spa.NewObserver(89.5, 0, 0), From: from, To: to, Measurement: m})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(ws) != 1 || !ws[0].StartsBefore || !ws[0].EndsAfter || !ws[0].Earliest.Equal(from) || !ws[0].Latest.Equal(to) {
+		t.Errorf("%s: want one window covering the whole range, got %+v", source, ws)
+	}
+}
