@@ -151,17 +151,21 @@ type Fix struct {
 
 // Camera is one camera's clock model across the batch.
 type Camera struct {
-	ID           string       `json:"id"`
-	Photos       int          `json:"photos"`
-	OffsetS      *float64     `json:"offset_s"`
-	OffsetSDs    *float64     `json:"offset_sd_s"`
-	DriftSPerDay *float64     `json:"drift_s_per_day"`
-	DriftPPM     *float64     `json:"drift_ppm"`
-	Outliers     []string     `json:"outliers"` // photo paths that disagree with the model
-	Resets       []string     `json:"resets"`   // photo paths where the clock appears to have been reset
-	OrderBreaks  []string     `json:"order_breaks"`
-	Points       []ClockPoint `json:"points"`
-	Note         string       `json:"note"`
+	ID           string   `json:"id"`
+	Photos       int      `json:"photos"`
+	OffsetS      *float64 `json:"offset_s"`
+	OffsetSDs    *float64 `json:"offset_sd_s"`
+	DriftSPerDay *float64 `json:"drift_s_per_day"`
+	DriftPPM     *float64 `json:"drift_ppm"`
+	// OffsetAtUTC is the RFC 3339 moment at which OffsetS holds, so the
+	// fitted clock line is OffsetS + DriftSPerDay × (t − OffsetAtUTC) / 1 day.
+	// "" means the median ClaimedUTC of Points (the HTML chart falls back to it).
+	OffsetAtUTC string       `json:"offset_at_utc"`
+	Outliers    []string     `json:"outliers"` // photo paths that disagree with the model
+	Resets      []string     `json:"resets"`   // photo paths where the clock appears to have been reset
+	OrderBreaks []string     `json:"order_breaks"`
+	Points      []ClockPoint `json:"points"`
+	Note        string       `json:"note"`
 }
 
 // ClockPoint is one photo's measured offset on a camera's clock chart.

@@ -1,0 +1,287 @@
+package report
+
+import (
+	"bytes"
+	"context"
+	"fmt"
+	"image"
+	_ "image/png"
+	"io"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"testing"
+	"time"
+)
+
+// findChromium returns the Chromium binary, or skips the test: CI installs
+// the Debian package "chromium" (see .ci/run), so there it never skips.
+func findChromium(t *testing.T) string {
+	t.Helper()
+	if p := os.Getenv("GNOMON_CHROMIUM"); p != "" {
+		return p
+	}
+	for _, name := range []string{"/usr/bin/chromium", "chromium", "chromium-browser", "google-chrome"} {
+		if p, err := exec.LookPath(name); err == nil {
+			return p
+		}
+	}
+	t.Skip("browser test skipped: no chromium found (install the Debian package \"chromium\" or set GNOMON_CHROMIUM)")
+	return ""
+}
+
+// runChromium runs headless Chromium on a local file with a fresh profile
+// and returns its stdout and stderr.
+func runChromium(t *testing.T, bin, page string, extra ...string) (stdout, stderr string) {
+	t.Helper()
+	args := []string{"--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
+		"--disable-background-networking", "--disable-component-update", "--disable-sync",
+		"--user-data-dir=" + t.TempDir(), "--enable-logging=stderr", "--v=0"}
+	args = append(args, extra...)
+	args = append(args, "file://"+page)
+	ctx, cancel := context.WithTimeout(context.Background(), 90*time.Second)
+	defer cancel()
+	cmd := exec.CommandContext(ctx, bin, args...)
+	var out, errb bytes.Buffer
+	cmd.Stdout, cmd.Stderr = &out, &errb
+	if err := cmd.Run(); err != nil {
+		t.Fatalf("chromium %v: %v\n%s", extra, err, tail(errb.String(), 2000))
+	}
+	return out.String(), errb.String()
+}
+
+func tail(s string, n int) string {
+	if len(s) > n {
+		return s[len(s)-n:]
+	}
+	return s
+}
+
+// pageProblems returns the lines of Chromium's log that report a problem
+// with the page itself: console messages, uncaught errors, and resources
+// refused by the Content-Security-Policy.
+var pageProblem = regexp.MustCompile(`(?i)CONSOLE|Uncaught|Refused to|Content Security Policy|Not allowed to load|ERR_FILE_NOT_FOUND`)
+
+func pageProblems(log string) []string {
+	var out []string
+	for _, line := range strings.Split(log, "\n") {
+		if pageProblem.MatchString(line) {
+			out = append(out, line)
+		}
+	}
+	return out
+}
+
+// element is a start tag seen in Chromium's serialised DOM.
+type element struct {
+	name  string
+	attrs map[string]string
+}
+
+// scanElements lists the start tags of a serialised DOM. In that
+// serialisation text nodes escape '<', so every '<' followed by a letter
+// starts an element; attribute values are quoted and may hold '>'.
+func scanElements(dom string) []element {
+	var out []element
+	for i := 0; i < len(dom); i++ {
+		if dom[i] != '<' || i+1 >= len(dom) || !isLetter(dom[i+1]) {
+			continue
+		}
+		j := i + 1
+		for j < len(dom) && !strings.ContainsRune(" \t\n\r/>", rune(dom[j])) {
+			j++
+		}
+		el := element{name: strings.ToLower(dom[i+1 : j]), attrs: map[string]string{}}
+		for j < len(dom) && dom[j] != '>' {
+			if strings.ContainsRune(" \t\n\r/", rune(dom[j])) {
+				j++
+				continue
+			}
+			k := j
+			for k < len(dom) && !strings.ContainsRune(" \t\n\r/>=", rune(dom[k])) {
+				k++
+			}
+			name := strings.ToLower(dom[j:k])
+			val := ""
+			if k < len(dom) && dom[k] == '=' {
+				k++
+				if k < len(dom) && (dom[k] == '"' || dom[k] == '\'') {
+					q := dom[k]
+					end := strings.IndexByte(dom[k+1:], q)
+					if end < 0 {
+						end = len(dom) - k - 1
+					}
+					val = dom[k+1 : k+1+end]
+					k += end + 2
+				} else {
+					v := k
+					for k < len(dom) && !strings.ContainsRune(" \t\n\r>", rune(dom[k])) {
+						k++
+					}
+					val = dom[v:k]
+				}
+			}
+			el.attrs[name] = val
+			j = k
+		}
+		out = append(out, el)
+		i = j
+	}
+	return out
+}
+
+func isLetter(b byte) bool { return b >= 'a' && b <= 'z' || b >= 'A' && b <= 'Z' }
+
+func hasClass(e element, c string) bool {
+	return strings.Contains(" "+e.attrs["class"]+" ", " "+c+" ")
+}
+
+// TestBrowserRendersSafely opens the report of the hostile fixture in
+// headless Chromium. The browser's own DOM is the witness: it must hold
+// every card and chart and no element or attribute injected through a
+// photo's metadata; the log must show no console error and no resource
+// refused; and a screenshot is kept as an artifact.
+func TestBrowserRendersSafely(t *testing.T) {
+	t.Parallel()
+	bin := findChromium(t)
+	dir := t.TempDir()
+	if err := os.MkdirAll(filepath.Join(dir, "thumbs"), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	img := testImage(900, 600)
+	for i, o := range map[string]int{"0001": 1, "0002": 6} {
+		if err := WriteThumbnail(filepath.Join(dir, "thumbs", i+".jpg"), nil, opener(img), o); err != nil {
+			t.Fatal(err)
+		}
+	}
+	a := fixtureAudit()
+	page := filepath.Join(dir, "report.html")
+	if err := WriteFileAtomic(page, func(w io.Writer) error { return WriteHTML(w, a) }); err != nil {
+		t.Fatal(err)
+	}
+
+	dom, log := runChromium(t, bin, page, "--dump-dom")
+	if !strings.Contains(dom, "</html>") {
+		t.Fatalf("no DOM dumped; log:\n%s", tail(log, 2000))
+	}
+	if p := pageProblems(log); len(p) > 0 {
+		t.Errorf("the page logged problems:\n%s", strings.Join(p, "\n"))
+	}
+
+	els := scanElements(dom)
+	count := func(pred func(element) bool) int {
+		n := 0
+		for _, e := range els {
+			if pred(e) {
+				n++
+			}
+		}
+		return n
+	}
+	wantSky, wantClock := 0, 0
+	for _, p := range a.Photos {
+		if buildSky(p) != nil {
+			wantSky++
+		}
+	}
+	for _, c := range a.Cameras {
+		if buildClock(c).Chart != nil {
+			wantClock++
+		}
+	}
+	presence := []struct {
+		what string
+		got  int
+		want int
+	}{
+		{"photo cards", count(func(e element) bool { return e.name == "article" && hasClass(e, "card") }), len(a.Photos)},
+		{"sky charts", count(func(e element) bool { return e.name == "figure" && hasClass(e, "sky") }), wantSky},
+		{"clock charts", count(func(e element) bool { return e.name == "svg" && hasClass(e, "clock") }), wantClock},
+		{"sun-path tracks", count(func(e element) bool { return e.name == "path" && hasClass(e, "track") }), wantSky},
+		{"thumbnails", count(func(e element) bool { return e.name == "img" }), 2},
+		{"methods section", count(func(e element) bool { return e.name == "section" && e.attrs["id"] == "methods" }), 1},
+	}
+	for _, p := range presence {
+		if p.got != p.want {
+			t.Errorf("%s: %d in the rendered DOM, want %d", p.what, p.got, p.want)
+		}
+	}
+	for _, e := range els {
+		switch e.name {
+		case "script", "iframe", "object", "embed", "frame", "base", "form", "link":
+			t.Errorf("injected element <%s %v> in the rendered DOM", e.name, e.attrs)
+		}
+		for k, v := range e.attrs {
+			if strings.HasPrefix(k, "on") {
+				t.Errorf("event handler attribute %s=%q on <%s>", k, v, e.name)
+			}
+			if (k == "src" || k == "href" || k == "xlink:href") && !strings.HasPrefix(v, "thumbs/") {
+				t.Errorf("<%s %s=%q>: only local thumbnails may be referenced", e.name, k, v)
+			}
+		}
+		if e.name == "meta" && strings.EqualFold(e.attrs["http-equiv"], "refresh") {
+			t.Error("meta refresh in the DOM")
+		}
+	}
+	if count(func(e element) bool { return e.name == "style" }) != 1 {
+		t.Error("want exactly the page's own <style> element")
+	}
+	// The hostile strings are there, as text.
+	for _, s := range []string{"&lt;script&gt;alert('path')&lt;/script&gt;.jpg", "&lt;img src=x onerror=\"alert('camera')\"&gt;", "&lt;/svg&gt;&lt;script&gt;alert('explanation')&lt;/script&gt;"} {
+		if !strings.Contains(dom, s) {
+			t.Errorf("hostile string not shown as text: %s", s)
+		}
+	}
+
+	// Screenshot, kept as an artifact.
+	artDir := os.Getenv("GNOMON_ARTIFACTS")
+	if artDir == "" {
+		artDir = t.TempDir()
+	} else if err := os.MkdirAll(artDir, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	shot := filepath.Join(artDir, "report-browser.png")
+	_, log = runChromium(t, bin, page, "--screenshot="+shot, "--window-size=1280,4000", "--hide-scrollbars")
+	if p := pageProblems(log); len(p) > 0 {
+		t.Errorf("the page logged problems:\n%s", strings.Join(p, "\n"))
+	}
+	f, err := os.Open(shot)
+	if err != nil {
+		t.Fatalf("no screenshot: %v", err)
+	}
+	defer f.Close()
+	cfg, format, err := image.DecodeConfig(f)
+	if err != nil || format != "png" || cfg.Width != 1280 || cfg.Height != 4000 {
+		t.Errorf("screenshot %s: %s %dx%d, %v; want png 1280x4000", shot, format, cfg.Width, cfg.Height, err)
+	}
+	t.Logf("screenshot: %s", shot)
+}
+
+// TestBrowserDetectorWorks is the control for the test above: a page whose
+// inline script the same policy refuses, and whose image is missing, must be
+// reported by pageProblems, so a silent log really means a clean page.
+func TestBrowserDetectorWorks(t *testing.T) {
+	if testing.Short() {
+		t.Skip("control run skipped in -short mode")
+	}
+	t.Parallel()
+	bin := findChromium(t)
+	dir := t.TempDir()
+	page := filepath.Join(dir, "control.html")
+	html := fmt.Sprintf(`<!DOCTYPE html><html><head><meta charset="utf-8">
+<meta http-equiv="Content-Security-Policy" content="default-src 'none'; img-src 'self' data:; style-src 'unsafe-inline'">
+<title>control</title></head><body><p id="x">control</p><script>document.title = "ran"</script>
+<img src="thumbs/missing.jpg" alt=""></body></html>`)
+	if err := os.WriteFile(page, []byte(html), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	dom, log := runChromium(t, bin, page, "--dump-dom")
+	if strings.Contains(dom, "<title>ran</title>") {
+		t.Error("the inline script ran despite the policy")
+	}
+	if len(pageProblems(log)) == 0 {
+		t.Errorf("the refused script left no trace in the log; the detector is blind:\n%s", tail(log, 3000))
+	}
+}

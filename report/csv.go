@@ -1,0 +1,130 @@
+package report
+
+import (
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"slices"
+	"strconv"
+	"strings"
+	"unicode"
+	"unicode/utf8"
+)
+
+// CSVColumns returns the first row of report.csv. The columns are documented
+// in the README; "checks" packs every check as
+// "kind=status(figure±uncertainty unit)" joined by "; ", in the order of
+// Photo.Checks.
+func CSVColumns() []string { return slices.Clone(csvHeader) }
+
+var csvHeader = []string{
+	"path", "root", "sha256", "size", "container", "camera", "claimed_local", "claim_source",
+	"zone", "claimed_utc", "lat", "lon", "sun_azimuth", "sun_altitude", "verdict",
+	"offset_s", "offset_low_s", "offset_high_s", "corrected_utc_earliest", "corrected_utc_latest",
+	"checks", "explanation", "error",
+}
+
+// WriteCSV writes one row per photo (sorted by path, then root) under
+// CSVColumns. Numeric columns (size, lat, lon, sun_azimuth, sun_altitude,
+// offset_s, offset_low_s, offset_high_s) are formatted by us from numbers and
+// are written as they are, so a negative offset stays a number; an unknown
+// number is an empty cell. Every other cell is text and goes through
+// NeutraliseCell. Bytes are otherwise kept: a file name that is not valid
+// UTF-8 is written with its exact bytes (JSON carries a base64 copy).
+func WriteCSV(w io.Writer, a *Audit) error {
+	if a == nil {
+		return errors.New("report: WriteCSV: nil audit")
+	}
+	cw := csv.NewWriter(w)
+	if err := cw.Write(csvHeader); err != nil {
+		return fmt.Errorf("report: write CSV header: %w", err)
+	}
+	for _, p := range sorted(a).Photos {
+		var az, alt string
+		if p.Sun != nil {
+			az, alt = csvFloat(&p.Sun.Azimuth), csvFloat(&p.Sun.Altitude)
+		}
+		row := []string{
+			NeutraliseCell(p.Path), NeutraliseCell(p.Root), NeutraliseCell(p.SHA256),
+			strconv.FormatInt(p.Size, 10),
+			NeutraliseCell(p.Container), NeutraliseCell(p.Camera), NeutraliseCell(p.ClaimedLocal),
+			NeutraliseCell(p.ClaimSource), NeutraliseCell(p.Zone), NeutraliseCell(p.ClaimedUTC),
+			csvFloat(p.Lat), csvFloat(p.Lon), az, alt,
+			NeutraliseCell(p.Verdict),
+			csvFloat(p.OffsetS), csvFloat(p.OffsetLowS), csvFloat(p.OffsetHighS),
+			NeutraliseCell(p.CorrectedUTCEarliest), NeutraliseCell(p.CorrectedUTCLatest),
+			NeutraliseCell(checksCell(p.Checks)),
+			NeutraliseCell(p.Explanation), NeutraliseCell(p.Error),
+		}
+		if err := cw.Write(row); err != nil {
+			return fmt.Errorf("report: write CSV row for %q: %w", p.Path, err)
+		}
+	}
+	cw.Flush()
+	if err := cw.Error(); err != nil {
+		return fmt.Errorf("report: write CSV: %w", err)
+	}
+	return nil
+}
+
+// csvFloat formats a number in the shortest form that reads back exactly;
+// nil is "". A non-finite value is written as NaN, +Inf or -Inf, the signed
+// forms behind an apostrophe so that no spreadsheet evaluates them.
+func csvFloat(f *float64) string {
+	if f == nil {
+		return ""
+	}
+	if n := nonFiniteName(*f); n != "" {
+		return NeutraliseCell(n)
+	}
+	return strconv.FormatFloat(*f, 'f', -1, 64)
+}
+
+// checksCell packs checks into one cell: "kind=status(figure±uncertainty unit)".
+func checksCell(cs []Check) string {
+	parts := make([]string, 0, len(cs))
+	for _, c := range cs {
+		var b strings.Builder
+		b.WriteString(c.Kind + "=" + c.Status)
+		if c.Figure != nil {
+			b.WriteString("(" + strconv.FormatFloat(*c.Figure, 'g', 6, 64))
+			if c.Uncertainty != nil {
+				b.WriteString("±" + strconv.FormatFloat(*c.Uncertainty, 'g', 4, 64))
+			}
+			if c.Unit != "" {
+				b.WriteString(" " + c.Unit)
+			}
+			b.WriteString(")")
+		}
+		parts = append(parts, b.String())
+	}
+	return strings.Join(parts, "; ")
+}
+
+// NeutraliseCell returns s prefixed with an apostrophe when a spreadsheet
+// would read it as a formula: when its first character is = + - @ (or their
+// full-width forms ＝ ＋ － ＠), a tab or a carriage return, or when such a
+// character follows leading white space. This is the rule OWASP gives for
+// "CSV injection"; the apostrophe shows in a text editor but makes Excel,
+// LibreOffice and Google Sheets store the cell as text. Only text cells go
+// through it; numbers we format are never altered.
+func NeutraliseCell(s string) string {
+	if s == "" {
+		return s
+	}
+	switch s[0] {
+	case '\t', '\r':
+		return "'" + s
+	}
+	t := strings.TrimLeftFunc(s, unicode.IsSpace)
+	if t == "" {
+		return s
+	}
+	r, _ := utf8.DecodeRuneInString(t)
+	switch r {
+	case '=', '+', '-', '@', '\t', '\r', '＝', '＋', '－', '＠':
+		return "'" + s
+	}
+	return s
+}

@@ -1,0 +1,331 @@
+package report
+
+import (
+	_ "embed"
+	"errors"
+	"fmt"
+	"html/template"
+	"io"
+	"iter"
+	"math"
+	"path"
+	"slices"
+	"strconv"
+	"strings"
+	"time"
+	"unicode/utf8"
+)
+
+//go:embed report.html.tmpl
+var htmlSource string
+
+// pageTemplate is parsed once; html/template escapes every value by context
+// (text, attribute, URL), which is what keeps evidence strings inert.
+var pageTemplate = template.Must(template.New("page").Funcs(template.FuncMap{
+	"vis":   Visible,
+	"num":   fmtNum,
+	"opt":   fmtOpt,
+	"dur":   fmtOffset,
+	"optd":  fmtOptOffset,
+	"style": verdictStyleOf,
+	"place": fmtPlace,
+}).Parse(htmlSource))
+
+// verdictStyle is how the HTML page shows one verdict: our own label, a
+// one-line gloss, a colour class and a mark shape drawn in SVG.
+type verdictStyle struct {
+	Code  string // the fixed verdict word, as in report.json
+	Label string // display label
+	Gloss string // what it means, in a sentence
+	Class string // CSS class carrying the colour
+	Shape string // mark drawn beside it: disc, dial, split, stripe, halfmoon, leaf, pin, rays, ring, cross
+}
+
+// verdictStyles lists every verdict in the order the summary shows them.
+var verdictStyles = []verdictStyle{
+	{"consistent", "Sun agrees", "Every check that could be made agrees with the claimed time and place.", "v-ok", "disc"},
+	{"clock_offset", "Clock set off", "The camera clock differs from the evidence by a steady amount.", "v-clock", "dial"},
+	{"zone_slip", "Zone mix-up", "The clock reads the time of another zone (whole or half hours off).", "v-zone", "split"},
+	{"dst_slip", "Summer-time slip", "The clock is one hour off around a daylight-saving change.", "v-dst", "stripe"},
+	{"ampm_slip", "Half-day slip", "The time reads twelve hours off: morning and afternoon swapped.", "v-ampm", "halfmoon"},
+	{"season_mismatch", "Wrong season", "The sun's path fits another time of year, not the claimed date.", "v-season", "leaf"},
+	{"place_mismatch", "Wrong place", "The sun fits the claimed time only somewhere else on Earth.", "v-place", "pin"},
+	{"light_mismatch", "Light disagrees", "The exposure needs far more or less light than the sun gave then.", "v-light", "rays"},
+	{"unverified", "Not testable", "Nothing independent was available to test the claim.", "v-none", "ring"},
+	{"unreadable", "Could not read", "The file could not be read; the reason is given.", "v-bad", "cross"},
+}
+
+func verdictStyleOf(code string) verdictStyle {
+	for _, s := range verdictStyles {
+		if s.Code == code {
+			return s
+		}
+	}
+	return verdictStyle{Code: code, Label: "Unknown verdict", Gloss: "A verdict this page does not know.", Class: "v-none", Shape: "ring"}
+}
+
+// WriteHTML writes report.html: one self-contained page (inline CSS and SVG,
+// no script, a Content-Security-Policy that forbids scripts and remote
+// content) that shows the run, a tally per verdict, each camera's clock chart
+// and one card per photo. Thumbnails are referenced by Photo.Thumbnail, a
+// relative path inside the report folder (written by WriteThumbnail); any
+// other form (absolute, "..", a URL scheme) is not linked. Every string from
+// a photo or a sheet is escaped by html/template and shown through Visible.
+func WriteHTML(w io.Writer, a *Audit) error {
+	if a == nil {
+		return errors.New("report: WriteHTML: nil audit")
+	}
+	page, err := buildPage(sorted(a))
+	if err != nil {
+		return fmt.Errorf("report: write HTML: %w", err)
+	}
+	if err = pageTemplate.Execute(w, page); err != nil {
+		return fmt.Errorf("report: write HTML: %w", err)
+	}
+	return nil
+}
+
+type htmlPage struct {
+	A        *Audit
+	Tally    []tallyRow
+	TallyBar []barSeg
+	Total    int
+	Cameras  []cameraView
+	// SkyBG is the sky charts' fixed background (rings, spokes, compass
+	// letters), rendered once by html/template from constants and reused
+	// by every card.
+	SkyBG template.HTML
+	// Cards yields one card at a time, so that the charts of a large batch
+	// are built while the page streams out rather than all held at once.
+	Cards iter.Seq[cardView]
+}
+
+type tallyRow struct {
+	Style verdictStyle
+	Count int
+}
+
+type barSeg struct {
+	Class    string
+	X, W     string
+	Label    string
+	Count    int
+	TextX    string
+	ShowText bool
+}
+
+type cardView struct {
+	P     Photo
+	Index int
+	Style verdictStyle
+	Thumb string // safe relative URL or ""
+	Sky   *skyChart
+}
+
+func buildPage(a *Audit) (htmlPage, error) {
+	pg := htmlPage{A: a, Total: len(a.Photos)}
+	var bg strings.Builder
+	if err := pageTemplate.ExecuteTemplate(&bg, "skybg", skyStatic()); err != nil {
+		return pg, err
+	}
+	pg.SkyBG = template.HTML(bg.String()) // our own markup, built from constants only
+	counts := map[string]int{}
+	for _, p := range a.Photos {
+		counts[p.Verdict]++
+	}
+	known := map[string]bool{}
+	for _, s := range verdictStyles {
+		known[s.Code] = true
+		pg.Tally = append(pg.Tally, tallyRow{s, counts[s.Code]})
+	}
+	var unknown []string
+	for code := range counts {
+		if !known[code] {
+			unknown = append(unknown, code)
+		}
+	}
+	slices.Sort(unknown)
+	for _, code := range unknown {
+		pg.Tally = append(pg.Tally, tallyRow{verdictStyleOf(code), counts[code]})
+	}
+	const barW = 900.0
+	x := 0.0
+	for _, t := range pg.Tally {
+		if t.Count == 0 || pg.Total == 0 {
+			continue
+		}
+		w := barW * float64(t.Count) / float64(pg.Total)
+		pg.TallyBar = append(pg.TallyBar, barSeg{Class: t.Style.Class, X: f1(x), W: f1(w), Label: t.Style.Label,
+			Count: t.Count, TextX: f1(x + w/2), ShowText: w >= 28})
+		x += w
+	}
+	for _, c := range a.Cameras {
+		pg.Cameras = append(pg.Cameras, buildClock(c))
+	}
+	pg.Cards = func(yield func(cardView) bool) {
+		for i, p := range a.Photos {
+			if !yield(cardView{P: p, Index: i + 1, Style: verdictStyleOf(p.Verdict),
+				Thumb: safeThumb(p.Thumbnail), Sky: buildSky(p)}) {
+				return
+			}
+		}
+	}
+	return pg, nil
+}
+
+// safeThumb returns rel if it is a plain relative path inside the report
+// folder, else "". Thumbnail names are chosen by the caller (never taken from
+// the evidence), so a strict alphabet costs nothing: ASCII letters, digits,
+// '.', '_', '-' and '/', no empty, "." or ".." segment, no leading slash.
+func safeThumb(rel string) string {
+	if rel == "" || path.Clean(rel) != rel || strings.HasPrefix(rel, "/") {
+		return ""
+	}
+	for _, seg := range strings.Split(rel, "/") {
+		if seg == "" || seg == "." || seg == ".." {
+			return ""
+		}
+	}
+	for _, r := range rel {
+		ok := r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || r >= '0' && r <= '9' || strings.ContainsRune("._-/", r)
+		if !ok {
+			return ""
+		}
+	}
+	return rel
+}
+
+// Visible returns s for display with nothing hidden: bytes that are not
+// valid UTF-8 become ⟦0xFF⟧, and control, format and direction-changing
+// characters (which could reorder or hide text, e.g. U+202E RIGHT-TO-LEFT
+// OVERRIDE) become ⟦U+202E⟧. Values over 2,000 characters are cut, saying
+// how much was left out (report.json keeps the whole value). Escaping for
+// HTML is html/template's job, not this function's.
+func Visible(s string) string {
+	const limit = 2000
+	var b strings.Builder
+	n := 0
+	for i := 0; i < len(s); {
+		if n >= limit {
+			fmt.Fprintf(&b, " … (%d more bytes, see report.json)", len(s)-i)
+			break
+		}
+		r, size := utf8.DecodeRuneInString(s[i:])
+		switch {
+		case r == utf8.RuneError && size == 1:
+			fmt.Fprintf(&b, "⟦0x%02X⟧", s[i])
+		case hiddenRune(r):
+			fmt.Fprintf(&b, "⟦U+%04X⟧", r)
+		default:
+			b.WriteRune(r)
+		}
+		i += size
+		n++
+	}
+	return b.String()
+}
+
+func hiddenRune(r rune) bool {
+	switch {
+	case r < 0x20, r >= 0x7f && r <= 0x9f: // C0, DEL, C1 controls
+		return true
+	case r == 0x061c, r == 0x200b, r == 0x200c, r == 0x200d, r == 0x200e, r == 0x200f,
+		r >= 0x202a && r <= 0x202e, r >= 0x2060 && r <= 0x2069, r == 0x2028, r == 0x2029,
+		r == 0xfeff, r >= 0xfff9 && r <= 0xfffb:
+		return true
+	}
+	return false
+}
+
+func f1(x float64) string { return strconv.FormatFloat(x, 'f', 1, 64) }
+
+// fmtNum formats a figure with d decimals, using a true minus sign.
+func fmtNum(x float64, d int) string {
+	if n := nonFiniteName(x); n != "" {
+		return n
+	}
+	s := strconv.FormatFloat(x, 'f', d, 64)
+	if strings.HasPrefix(s, "-") {
+		s = "−" + s[1:]
+	}
+	return s
+}
+
+func fmtOpt(x *float64, d int) string {
+	if x == nil {
+		return "—"
+	}
+	return fmtNum(*x, d)
+}
+
+// fmtOffset writes seconds as a signed, readable span: "+2 h 05 min 09 s".
+func fmtOffset(sec float64) string {
+	if n := nonFiniteName(sec); n != "" {
+		return n
+	}
+	sign := "+"
+	if sec < 0 {
+		sign, sec = "−", -sec
+	}
+	if sec < 60 {
+		return sign + strconv.FormatFloat(sec, 'f', 1, 64) + " s"
+	}
+	t := int64(math.Round(sec))
+	d, h, m, s := t/86400, t%86400/3600, t%3600/60, t%60
+	switch {
+	case d > 0:
+		return fmt.Sprintf("%s%d d %d h %02d min", sign, d, h, m)
+	case h > 0:
+		return fmt.Sprintf("%s%d h %02d min %02d s", sign, h, m, s)
+	}
+	return fmt.Sprintf("%s%d min %02d s", sign, m, s)
+}
+
+func fmtOptOffset(x *float64) string {
+	if x == nil {
+		return "—"
+	}
+	return fmtOffset(*x)
+}
+
+func parseUTC(s string) (time.Time, bool) {
+	t, err := time.Parse(time.RFC3339Nano, s)
+	return t, err == nil
+}
+
+// fmtPlace shows a position, or why there is none to show.
+func fmtPlace(lat, lon *float64) string {
+	if lat == nil && lon == nil {
+		return "no position"
+	}
+	if _, why := point(lat, lon); why != "" {
+		return fmt.Sprintf("%s°, %s° (not drawn: %s)", fmtOpt(lat, 5), fmtOpt(lon, 5), why)
+	}
+	return fmt.Sprintf("%s°, %s°", fmtNum(*lat, 5), fmtNum(*lon, 5))
+}
+
+// fmtTick writes a tick label: a signed span without zero sub-units.
+func fmtTick(sec float64) string {
+	if sec == 0 {
+		return "0"
+	}
+	sign := "+"
+	if sec < 0 {
+		sign, sec = "−", -sec
+	}
+	if sec < 60 {
+		return sign + strconv.FormatFloat(sec, 'f', -1, 64) + " s"
+	}
+	t := int64(math.Round(sec))
+	parts := []string{}
+	for _, u := range []struct {
+		n    int64
+		name string
+	}{{86400, "d"}, {3600, "h"}, {60, "min"}, {1, "s"}} {
+		if q := t / u.n; q > 0 {
+			parts = append(parts, fmt.Sprintf("%d %s", q, u.name))
+			t -= q * u.n
+		}
+	}
+	return sign + strings.Join(parts, " ")
+}

@@ -1,0 +1,496 @@
+package report
+
+import (
+	"bytes"
+	"cmp"
+	"encoding/base64"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"reflect"
+	"slices"
+	"strconv"
+	"strings"
+	"unicode/utf8"
+)
+
+// Suffixes of the sibling members that keep what plain JSON would lose.
+const (
+	rawB64Suffix    = "_raw_b64"   // exact bytes of a string that is not valid UTF-8
+	nonFiniteSuffix = "_nonfinite" // "NaN", "+Inf" or "-Inf" for a number written as null
+)
+
+// ErrInvalidKey reports a map key that is not valid UTF-8. Map keys are the
+// tool's own vocabulary (verdict names), so such a key is a programming error.
+var ErrInvalidKey = errors.New("map key is not valid UTF-8")
+
+// sorted returns a shallow copy of a whose photos are ordered by path (then
+// root) and cameras by id, so that every writer is deterministic without
+// reordering the caller's slices.
+func sorted(a *Audit) *Audit {
+	c := *a
+	c.Photos = slices.Clone(a.Photos)
+	slices.SortStableFunc(c.Photos, func(x, y Photo) int {
+		return cmp.Or(strings.Compare(x.Path, y.Path), strings.Compare(x.Root, y.Root))
+	})
+	c.Cameras = slices.Clone(a.Cameras)
+	slices.SortStableFunc(c.Cameras, func(x, y Camera) int { return strings.Compare(x.ID, y.ID) })
+	return &c
+}
+
+// WriteJSON writes a as report.json: schema "gnomon.audit/1", two-space
+// indent, a trailing newline, photos sorted by path and cameras by id (a is
+// not modified). Strings that are not valid UTF-8 and non-finite numbers get
+// the sibling members described in the package doc, so the output is valid
+// JSON for any input and loses no byte.
+func WriteJSON(w io.Writer, a *Audit) error {
+	if a == nil {
+		return errors.New("report: WriteJSON: nil audit")
+	}
+	c := sorted(a)
+	if c.Schema == "" {
+		c.Schema = SchemaID
+	}
+	var e jsonEncoder
+	if err := e.value(reflect.ValueOf(c).Elem(), 0); err != nil {
+		return fmt.Errorf("report: encode JSON: %w", err)
+	}
+	e.buf.WriteByte('\n')
+	if _, err := w.Write(e.buf.Bytes()); err != nil {
+		return fmt.Errorf("report: write JSON: %w", err)
+	}
+	return nil
+}
+
+// jsonEncoder writes a Go value as indented JSON, following the struct tags
+// (name, "-", omitempty) the way encoding/json does, plus the sibling rules.
+type jsonEncoder struct {
+	buf     bytes.Buffer
+	scratch []byte
+	fields  map[reflect.Type][]jsonField // cache: a batch has many photos of one type
+}
+
+func (e *jsonEncoder) fieldsOf(t reflect.Type) []jsonField {
+	if fs, ok := e.fields[t]; ok {
+		return fs
+	}
+	if e.fields == nil {
+		e.fields = map[reflect.Type][]jsonField{}
+	}
+	fs := jsonFields(t)
+	e.fields[t] = fs
+	return fs
+}
+
+func (e *jsonEncoder) newline(depth int) {
+	e.buf.WriteByte('\n')
+	for range depth {
+		e.buf.WriteString("  ")
+	}
+}
+
+// str writes s as a JSON string as encoding/json does (checked by
+// TestJSONMatchesEncodingJSON and FuzzJSON): invalid UTF-8 becomes U+FFFD,
+// and <, >, &, U+2028 and U+2029 are escaped (harmless, and safer if the text
+// is pasted into HTML). It departs in one way: invisible and
+// direction-changing characters (C1 controls, U+200B-U+200F, U+202A-U+202E,
+// U+2060-U+2069, U+FEFF, ...) are written as \uXXXX escapes too. Writing it here rather than calling json.Marshal per
+// string makes report.json several times faster on large batches.
+func (e *jsonEncoder) str(s string) {
+	e.scratch = appendJSONString(e.scratch[:0], s)
+	e.buf.Write(e.scratch)
+}
+
+const hexDigits = "0123456789abcdef"
+
+func appendJSONString(b []byte, s string) []byte {
+	b = append(b, '"')
+	start := 0
+	for i := 0; i < len(s); {
+		if c := s[i]; c < utf8.RuneSelf {
+			if c >= 0x20 && c != '"' && c != '\\' && c != '<' && c != '>' && c != '&' {
+				i++
+				continue
+			}
+			b = append(b, s[start:i]...)
+			switch c {
+			case '"', '\\':
+				b = append(b, '\\', c)
+			case '\b':
+				b = append(b, '\\', 'b')
+			case '\f':
+				b = append(b, '\\', 'f')
+			case '\n':
+				b = append(b, '\\', 'n')
+			case '\r':
+				b = append(b, '\\', 'r')
+			case '\t':
+				b = append(b, '\\', 't')
+			default:
+				b = append(b, '\\', 'u', '0', '0', hexDigits[c>>4], hexDigits[c&0xf])
+			}
+			i++
+			start = i
+			continue
+		}
+		r, size := utf8.DecodeRuneInString(s[i:])
+		if r == utf8.RuneError && size == 1 {
+			b = append(b, s[start:i]...)
+			b = append(b, `\ufffd`...)
+			i += size
+			start = i
+			continue
+		}
+		if r == '\u2028' || r == '\u2029' || hiddenRune(r) {
+			// encoding/json escapes U+2028 and U+2029; we also escape the
+			// invisible and direction-changing characters (see Visible), so
+			// that report.json opened in an editor shows "\u202e" rather
+			// than silently reordered text. The decoded string is the same.
+			b = append(b, s[start:i]...)
+			b = append(b, '\\', 'u', hexDigits[r>>12&0xf], hexDigits[r>>8&0xf], hexDigits[r>>4&0xf], hexDigits[r&0xf])
+			i += size
+			start = i
+			continue
+		}
+		i += size
+	}
+	b = append(b, s[start:]...)
+	return append(b, '"')
+}
+
+// num writes a finite float exactly as encoding/json does (shortest
+// round-trip form; exponent form below 1e-6 and from 1e21), or null.
+func (e *jsonEncoder) num(f float64) {
+	if math.IsNaN(f) || math.IsInf(f, 0) {
+		e.buf.WriteString("null")
+		return
+	}
+	abs, format := math.Abs(f), byte('f')
+	if abs != 0 && (abs < 1e-6 || abs >= 1e21) {
+		format = 'e'
+	}
+	b := strconv.AppendFloat(e.scratch[:0], f, format, -1, 64)
+	if format == 'e' {
+		// Clean up e-09 to e-9, as encoding/json does.
+		if n := len(b); n >= 4 && b[n-4] == 'e' && b[n-3] == '-' && b[n-2] == '0' {
+			b[n-2] = b[n-1]
+			b = b[:n-1]
+		}
+	}
+	e.scratch = b
+	e.buf.Write(b)
+}
+
+func nonFiniteName(f float64) string {
+	switch {
+	case math.IsNaN(f):
+		return "NaN"
+	case math.IsInf(f, 1):
+		return "+Inf"
+	case math.IsInf(f, -1):
+		return "-Inf"
+	}
+	return ""
+}
+
+func (e *jsonEncoder) value(v reflect.Value, depth int) error {
+	switch v.Kind() {
+	case reflect.Pointer, reflect.Interface:
+		if v.IsNil() {
+			e.buf.WriteString("null")
+			return nil
+		}
+		return e.value(v.Elem(), depth)
+	case reflect.String:
+		e.str(v.String())
+	case reflect.Bool:
+		e.buf.WriteString(strconv.FormatBool(v.Bool()))
+	case reflect.Int, reflect.Int8, reflect.Int16, reflect.Int32, reflect.Int64:
+		e.buf.WriteString(strconv.FormatInt(v.Int(), 10))
+	case reflect.Uint, reflect.Uint8, reflect.Uint16, reflect.Uint32, reflect.Uint64:
+		e.buf.WriteString(strconv.FormatUint(v.Uint(), 10))
+	case reflect.Float32, reflect.Float64:
+		e.num(v.Float())
+	case reflect.Slice, reflect.Array:
+		if v.Len() == 0 {
+			e.buf.WriteString("[]")
+			return nil
+		}
+		e.buf.WriteByte('[')
+		for i := range v.Len() {
+			if i > 0 {
+				e.buf.WriteByte(',')
+			}
+			e.newline(depth + 1)
+			if err := e.value(v.Index(i), depth+1); err != nil {
+				return fmt.Errorf("[%d]: %w", i, err)
+			}
+		}
+		e.newline(depth)
+		e.buf.WriteByte(']')
+	case reflect.Map:
+		if v.Type().Key().Kind() != reflect.String {
+			return fmt.Errorf("unsupported map key type %s", v.Type().Key())
+		}
+		if v.Len() == 0 {
+			e.buf.WriteString("{}")
+			return nil
+		}
+		keys := v.MapKeys()
+		slices.SortFunc(keys, func(x, y reflect.Value) int { return strings.Compare(x.String(), y.String()) })
+		e.buf.WriteByte('{')
+		for i, k := range keys {
+			if !utf8.ValidString(k.String()) {
+				return fmt.Errorf("%q: %w", k.String(), ErrInvalidKey)
+			}
+			if i > 0 {
+				e.buf.WriteByte(',')
+			}
+			e.newline(depth + 1)
+			e.str(k.String())
+			e.buf.WriteString(": ")
+			if err := e.value(v.MapIndex(k), depth+1); err != nil {
+				return fmt.Errorf("%s: %w", k.String(), err)
+			}
+		}
+		e.newline(depth)
+		e.buf.WriteByte('}')
+	case reflect.Struct:
+		return e.object(v, depth)
+	default:
+		return fmt.Errorf("unsupported kind %s", v.Kind())
+	}
+	return nil
+}
+
+// jsonField is one struct field as encoding/json would name it.
+type jsonField struct {
+	index     int
+	name      string
+	omitEmpty bool
+}
+
+func jsonFields(t reflect.Type) []jsonField {
+	var out []jsonField
+	for i := range t.NumField() {
+		f := t.Field(i)
+		if !f.IsExported() {
+			continue
+		}
+		tag := f.Tag.Get("json")
+		if tag == "-" {
+			continue
+		}
+		name, opts, _ := strings.Cut(tag, ",")
+		if name == "" {
+			name = f.Name
+		}
+		out = append(out, jsonField{index: i, name: name, omitEmpty: slices.Contains(strings.Split(opts, ","), "omitempty")})
+	}
+	return out
+}
+
+func isEmpty(v reflect.Value) bool {
+	switch v.Kind() {
+	case reflect.Slice, reflect.Map, reflect.String, reflect.Array:
+		return v.Len() == 0
+	case reflect.Pointer, reflect.Interface:
+		return v.IsNil()
+	case reflect.Bool:
+		return !v.Bool()
+	case reflect.Int, reflect.Int8, reflect.Int16, reflect.Int32, reflect.Int64:
+		return v.Int() == 0
+	case reflect.Uint, reflect.Uint8, reflect.Uint16, reflect.Uint32, reflect.Uint64:
+		return v.Uint() == 0
+	case reflect.Float32, reflect.Float64:
+		return v.Float() == 0
+	}
+	return false
+}
+
+// object writes a struct, adding "<name>_raw_b64" after a string or string
+// list holding invalid UTF-8 and "<name>_nonfinite" after a NaN/Inf number.
+func (e *jsonEncoder) object(v reflect.Value, depth int) error {
+	first := true
+	member := func(name string) {
+		if first {
+			e.buf.WriteByte('{')
+		} else {
+			e.buf.WriteByte(',')
+		}
+		first = false
+		e.newline(depth + 1)
+		e.str(name)
+		e.buf.WriteString(": ")
+	}
+	for _, f := range e.fieldsOf(v.Type()) {
+		fv := v.Field(f.index)
+		if f.omitEmpty && isEmpty(fv) {
+			continue
+		}
+		member(f.name)
+		if err := e.value(fv, depth+1); err != nil {
+			return fmt.Errorf("%s: %w", f.name, err)
+		}
+		// Siblings.
+		for fv.Kind() == reflect.Pointer && !fv.IsNil() {
+			fv = fv.Elem()
+		}
+		switch {
+		case fv.Kind() == reflect.String && !utf8.ValidString(fv.String()):
+			member(f.name + rawB64Suffix)
+			e.str(base64.StdEncoding.EncodeToString([]byte(fv.String())))
+		case fv.Kind() == reflect.Slice && fv.Type().Elem().Kind() == reflect.String:
+			var bad bool
+			for i := range fv.Len() {
+				bad = bad || !utf8.ValidString(fv.Index(i).String())
+			}
+			if !bad {
+				break
+			}
+			member(f.name + rawB64Suffix)
+			e.buf.WriteByte('[')
+			for i := range fv.Len() {
+				if i > 0 {
+					e.buf.WriteByte(',')
+				}
+				e.newline(depth + 2)
+				if s := fv.Index(i).String(); utf8.ValidString(s) {
+					e.buf.WriteString("null")
+				} else {
+					e.str(base64.StdEncoding.EncodeToString([]byte(s)))
+				}
+			}
+			e.newline(depth + 1)
+			e.buf.WriteByte(']')
+		case fv.Kind() == reflect.Float64 || fv.Kind() == reflect.Float32:
+			if n := nonFiniteName(fv.Float()); n != "" {
+				member(f.name + nonFiniteSuffix)
+				e.str(n)
+			}
+		}
+	}
+	if first {
+		e.buf.WriteString("{}")
+		return nil
+	}
+	e.newline(depth)
+	e.buf.WriteByte('}')
+	return nil
+}
+
+// ReadJSON reads a report.json written by WriteJSON, restoring the exact
+// bytes of strings from their "_raw_b64" siblings and non-finite numbers from
+// their "_nonfinite" siblings, so that WriteJSON(ReadJSON(x)) == x.
+func ReadJSON(r io.Reader) (*Audit, error) {
+	data, err := io.ReadAll(r)
+	if err != nil {
+		return nil, fmt.Errorf("report: read JSON: %w", err)
+	}
+	var a Audit
+	if err := json.Unmarshal(data, &a); err != nil {
+		return nil, fmt.Errorf("report: decode JSON: %w", err)
+	}
+	var generic any
+	if err := json.Unmarshal(data, &generic); err != nil {
+		return nil, fmt.Errorf("report: decode JSON: %w", err)
+	}
+	if err := restore(reflect.ValueOf(&a).Elem(), generic); err != nil {
+		return nil, fmt.Errorf("report: decode JSON: %w", err)
+	}
+	return &a, nil
+}
+
+// restore walks v (already decoded by encoding/json) beside its generic
+// JSON tree g and applies the sibling members.
+func restore(v reflect.Value, g any) error {
+	switch v.Kind() {
+	case reflect.Pointer:
+		if v.IsNil() {
+			return nil
+		}
+		return restore(v.Elem(), g)
+	case reflect.Slice:
+		arr, _ := g.([]any)
+		for i := 0; i < v.Len() && i < len(arr); i++ {
+			if err := restore(v.Index(i), arr[i]); err != nil {
+				return fmt.Errorf("[%d]: %w", i, err)
+			}
+		}
+	case reflect.Struct:
+		obj, _ := g.(map[string]any)
+		if obj == nil {
+			return nil
+		}
+		for _, f := range jsonFields(v.Type()) {
+			fv := v.Field(f.index)
+			if err := restore(fv, obj[f.name]); err != nil {
+				return fmt.Errorf("%s: %w", f.name, err)
+			}
+			if raw, ok := obj[f.name+rawB64Suffix]; ok {
+				if err := restoreRaw(fv, raw); err != nil {
+					return fmt.Errorf("%s%s: %w", f.name, rawB64Suffix, err)
+				}
+			}
+			if nf, ok := obj[f.name+nonFiniteSuffix].(string); ok {
+				var x float64
+				switch nf {
+				case "NaN":
+					x = math.NaN()
+				case "+Inf":
+					x = math.Inf(1)
+				case "-Inf":
+					x = math.Inf(-1)
+				default:
+					return fmt.Errorf("%s%s: unknown value %q", f.name, nonFiniteSuffix, nf)
+				}
+				if fv.Kind() == reflect.Pointer {
+					fv.Set(reflect.New(fv.Type().Elem()))
+					fv = fv.Elem()
+				}
+				if fv.Kind() == reflect.Float64 || fv.Kind() == reflect.Float32 {
+					fv.SetFloat(x)
+				}
+			}
+		}
+	}
+	return nil
+}
+
+func restoreRaw(fv reflect.Value, raw any) error {
+	decode := func(s string) (string, error) {
+		b, err := base64.StdEncoding.DecodeString(s)
+		return string(b), err
+	}
+	switch fv.Kind() {
+	case reflect.String:
+		s, ok := raw.(string)
+		if !ok {
+			return errors.New("not a string")
+		}
+		b, err := decode(s)
+		if err != nil {
+			return err
+		}
+		fv.SetString(b)
+	case reflect.Slice:
+		arr, ok := raw.([]any)
+		if !ok || len(arr) != fv.Len() {
+			return errors.New("not an array of the field's length")
+		}
+		for i, x := range arr {
+			s, ok := x.(string)
+			if !ok {
+				continue // null: the element was valid UTF-8
+			}
+			b, err := decode(s)
+			if err != nil {
+				return fmt.Errorf("[%d]: %w", i, err)
+			}
+			fv.Index(i).SetString(b)
+		}
+	}
+	return nil
+}
