@@ -369,13 +369,29 @@ func FileNumber(name string) (n, digits int, ok bool) {
 		j--
 	}
 	digits = len(base) - j
-	if digits == 0 || digits > 9 {
+	if digits == 0 || digits > 9 || timestampName(base, j) {
 		return 0, 0, false
 	}
 	for _, c := range base[j:] {
 		n = n*10 + int(c-'0')
 	}
 	return n, digits, true
+}
+
+// timestampName reports whether the trailing digits of base, starting at j,
+// are the time part of a date-and-time name such as IMG_20271010_150211
+// (phones name files by their capture time, common practice): a time of
+// day, not a counter, so it says nothing about capture order.
+func timestampName(base string, j int) bool {
+	if j < 9 || (base[j-1] != '_' && base[j-1] != '-') {
+		return false
+	}
+	for _, c := range base[j-9 : j-1] {
+		if c < '0' || c > '9' {
+			return false
+		}
+	}
+	return true
 }
 
 // orderBreaks sorts the numbered photos by claimed time and reports each

@@ -319,7 +319,12 @@ func TestCameraIDAndFileNumber(t *testing.T) {
 		ok        bool
 	}{
 		{"DSC_0012.JPG", 12, 4, true},
-		{"dir/IMG20260503_142205.jpg", 142205, 6, true},
+		// Date-and-time names (phones; common practice): the trailing
+		// digits are a time of day, not a counter.
+		{"dir/IMG20260503_142205.jpg", 0, 0, false},
+		{"IMG_20271010_150211.jpg", 0, 0, false},
+		{"VID-20271010-150211.mp4", 0, 0, false},
+		{"SCAN_12345678.jpg", 12345678, 8, true},
 		{`C:\DCIM\100CANON\IMG_9999.CR3`, 9999, 4, true},
 		{"IMG_0012 (1).jpg", 0, 0, false},
 		{"photo.jpg", 0, 0, false},
