@@ -1,0 +1,36 @@
+// Command gen writes the benchmark photo folder: go run ./exifread/internal/benchset/gen -n 1000 -out DIR
+package main
+
+import (
+	"flag"
+	"fmt"
+	"os"
+
+	"github.com/gnomon-forensics/gnomon/exifread/internal/benchset"
+)
+
+func main() {
+	n := flag.Int("n", 1000, "number of photos")
+	w := flag.Int("w", 3000, "width in pixels")
+	h := flag.Int("h", 2000, "height in pixels")
+	out := flag.String("out", "", "output folder (created)")
+	flag.Parse()
+	if *out == "" {
+		fmt.Fprintln(os.Stderr, "gen: -out is required")
+		os.Exit(2)
+	}
+	if err := os.MkdirAll(*out, 0o755); err != nil {
+		fmt.Fprintln(os.Stderr, "gen:", err)
+		os.Exit(1)
+	}
+	base, err := benchset.Base(*w, *h)
+	if err != nil {
+		fmt.Fprintln(os.Stderr, "gen:", err)
+		os.Exit(1)
+	}
+	if err := benchset.Write(*out, *n, base); err != nil {
+		fmt.Fprintln(os.Stderr, "gen:", err)
+		os.Exit(1)
+	}
+	fmt.Printf("wrote %d photos of %d bytes to %s\n", *n, len(base), *out)
+}
