@@ -1,0 +1,344 @@
+package solarcheck
+
+import (
+	"fmt"
+	"math"
+	"time"
+
+	"github.com/gnomon-forensics/gnomon/exifread"
+	"github.com/gnomon-forensics/gnomon/solarcheck/invert"
+	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
+)
+
+// searchHalfSpan is how far either side of the claim the shadow search looks
+// for the sun. Shadows repeat daily, so an offset is only known modulo a
+// day; ±14 h covers every zone step (UTC−12..UTC+14) and the 12-hour slip.
+const searchHalfSpan = 14 * time.Hour
+
+// gpsLagSec and gpsLeapSec bound how far a GPS time stamp may sit from the
+// moment of exposure: receivers stamp the time of their last fix, a few
+// seconds before the exposure (common practice: 10 s allowed), and a receiver
+// that never received the UTC correction reports GPS time, 18 s ahead of UTC
+// since 2017-01-01 (IERS Bulletin C; GPS time has no leap seconds).
+const (
+	gpsLagSec  = 10
+	gpsLeapSec = 18
+)
+
+// checkShadows compares the sun direction measured in the photo with the
+// sun at the claimed moment: the offset (claimed minus best-fitting time)
+// with its 95 % interval, and whether the sun was up at all.
+func (x *Examiner) checkShadows(f *Finding, p Photo) {
+	ds, problems := directions(p.Rows, f.LatDeg, f.LonDeg, f.HasPlace, f.Claimed)
+	for _, pr := range problems {
+		f.check(Check{Kind: KindMeasurements, Status: Skipped, Sentence: "A measurement could not be used: " + pr + "."})
+	}
+	if len(ds) == 0 {
+		return
+	}
+	f.Measured = ds
+	if !f.HasPlace {
+		f.check(Check{Kind: KindShadowTime, Status: Skipped,
+			Sentence: "Shadows were measured but the photo has no place (no GPS tag and no lat/lon in the sheet), so the sun cannot be consulted."})
+		return
+	}
+	m, spread, dof := combine(ds)
+	if dof > 0 {
+		lim := chi2P95(dof)
+		st, s := Agrees, fmt.Sprintf("The %d measured objects agree with each other (spread χ² %.1f for %d degrees of freedom, 95 %% limit %.1f).", len(ds), spread, dof, lim)
+		if spread > lim {
+			st, s = Conflicts, fmt.Sprintf("The %d measured objects disagree with each other more than their stated uncertainties allow (χ² %.1f for %d degrees of freedom, 95 %% limit %.1f): re-check the measurements.", len(ds), spread, dof, lim)
+		}
+		f.check(Check{Kind: KindMeasurements, Status: st, Figure: spread, HasFigure: true, Unit: "chi2", Sentence: s})
+	}
+
+	// Check 5: a shadow needs the sun above the horizon.
+	if f.Sun != nil {
+		if f.Sun.AltitudeDeg < spa.SunriseAltitudeDeg {
+			f.check(Check{Kind: KindSunUp, Status: Conflicts, Figure: f.Sun.AltitudeDeg, HasFigure: true, Unit: "deg",
+				Sentence: fmt.Sprintf("Shadows were measured, but at the claimed moment the sun was %.1f° below the horizon.", -f.Sun.AltitudeDeg)})
+		} else {
+			f.check(Check{Kind: KindSunUp, Status: Agrees, Figure: f.Sun.AltitudeDeg, HasFigure: true, Unit: "deg",
+				Sentence: fmt.Sprintf("The sun was up at the claimed moment (altitude %.1f°), as the shadows require.", f.Sun.AltitudeDeg)})
+		}
+	}
+
+	obs := spa.NewObserver(f.LatDeg, f.LonDeg, f.ElevationM)
+	q := invert.Query{Observer: obs, From: f.Claimed.Add(-searchHalfSpan), To: f.Claimed.Add(searchHalfSpan), Measurement: m, DeltaT: x.deltaTFunc()}
+	ws, err := invert.When(q)
+	if err != nil {
+		f.check(Check{Kind: KindShadowTime, Status: Skipped, Sentence: "The shadow time search failed: " + err.Error() + "."})
+		return
+	}
+	loose := false
+	if len(ws) == 0 {
+		// Nothing fits at the 95 % level near the claim. Before looking at
+		// other seasons, see whether the measurements fit with their
+		// uncertainties doubled: a rough measurement should not be
+		// mistaken for a wrong date.
+		lq := q
+		lq.Measurement.AzimuthSDDeg *= 2
+		lq.Measurement.AltitudeSDDeg *= 2
+		if ws, err = invert.When(lq); err != nil || len(ws) == 0 {
+			x.seasonCheck(f, q)
+			return
+		}
+		loose = true
+	}
+	w := nearestWindow(ws, f.Claimed)
+	iv := Interval{
+		Sec:     f.Claimed.Sub(w.Best).Seconds(),
+		LowSec:  f.Claimed.Sub(w.Latest).Seconds(),
+		HighSec: f.Claimed.Sub(w.Earliest).Seconds(),
+	}
+	f.BestFit = &SunSample{Time: w.Best, AzimuthDeg: w.AzimuthDeg, AltitudeDeg: w.AltitudeDeg}
+	c := Check{Kind: KindShadowTime, Figure: iv.Sec, HasFigure: true, Unit: "s", Uncertainty: iv.HalfWidth(), HasUncertainty: true}
+	if iv.Contains(0, 0) {
+		c.Status = Agrees
+		c.Sentence = fmt.Sprintf("The shadows fit the claimed moment: the best-fitting time is %s from it, and the claim lies inside the 95 %% window (%s to %s UTC).",
+			signedDuration(iv.Sec), w.Earliest.Format("15:04:05"), w.Latest.Format("15:04:05"))
+	} else {
+		c.Status = Conflicts
+		c.Sentence = fmt.Sprintf("The shadows fit %s UTC best (95 %% window %s to %s); the claim is %s from that.",
+			w.Best.Format("2006-01-02 15:04:05"), w.Earliest.Format("15:04:05"), w.Latest.Format("15:04:05"), signedDuration(iv.Sec))
+	}
+	if len(ws) > 1 {
+		c.Sentence += fmt.Sprintf(" %d windows fit within ±14 h; the one nearest the claim is used.", len(ws))
+	}
+	if loose {
+		c.Sentence += " The measurements fit the sun only with their stated uncertainties doubled; the window is given on that basis."
+	}
+	f.check(c)
+	f.shadowOffset = &iv
+}
+
+// seasonCheck runs when no time within ±14 h of the claim fits the shadows:
+// it searches the half-year either side for dates on which the sun could
+// have cast them.
+func (x *Examiner) seasonCheck(f *Finding, q invert.Query) {
+	q.From, q.To = f.Claimed.AddDate(0, 0, -182), f.Claimed.AddDate(0, 0, 182)
+	ws, err := invert.When(q)
+	c := Check{Kind: KindShadowTime, Status: Conflicts}
+	switch {
+	case err != nil:
+		c.Sentence = "No time near the claim fits the shadows, and the year-long search failed: " + err.Error() + "."
+	case len(ws) == 0:
+		c.Sentence = "No time within half a year of the claim fits the shadows at this place: the place or the measurements may be wrong."
+	default:
+		near := nearestWindow(ws, f.Claimed)
+		days := f.Claimed.Sub(near.Best).Hours() / 24
+		c.Figure, c.HasFigure, c.Unit = days, true, "days"
+		c.Sentence = fmt.Sprintf("No time on or near the claimed date fits the shadows; the nearest date on which the sun stood so is %s (%.0f days from the claim), which points to a different season.",
+			near.Best.Format("2006-01-02"), math.Abs(days))
+		f.seasonOff = true
+		f.BestFit = &SunSample{Time: near.Best, AzimuthDeg: near.AzimuthDeg, AltitudeDeg: near.AltitudeDeg}
+	}
+	f.check(c)
+}
+
+func (x *Examiner) deltaTFunc() func(time.Time) float64 {
+	if x.deltaT == nil {
+		return nil
+	}
+	d := *x.deltaT
+	return func(time.Time) float64 { return d }
+}
+
+// nearestWindow returns the window whose best time is nearest t.
+func nearestWindow(ws []invert.Window, t time.Time) invert.Window {
+	best := ws[0]
+	for _, w := range ws[1:] {
+		if absDur(w.Best.Sub(t)) < absDur(best.Best.Sub(t)) {
+			best = w
+		}
+	}
+	return best
+}
+
+// checkGPSClock compares the camera's claimed instant with the GPS
+// receiver's UTC stamp. The offset is split into a whole step of 15-minute
+// zone increments and a residual.
+func (x *Examiner) checkGPSClock(f *Finding, rec exifread.Record) {
+	g := rec.GPS.Time
+	if g == nil {
+		return
+	}
+	if !g.Valid || !g.HasDate {
+		reason := g.Invalid
+		if reason == "" {
+			reason = "no GPS date"
+		}
+		f.check(Check{Kind: KindGPSClock, Status: Skipped, Sentence: "The GPS time stamp cannot be used: " + reason + "."})
+		return
+	}
+	off := f.Claimed.Sub(g.UTC).Seconds()
+	// The true moment lies in [gps − leap, gps + lag] (see gpsLagSec), so
+	// claimed − true lies in [off − lag, off + leap].
+	iv := Interval{Sec: off, LowSec: off - gpsLagSec, HighSec: off + gpsLeapSec}
+	step := math.Round(off/900) * 900
+	c := Check{Kind: KindGPSClock, Figure: off, HasFigure: true, Unit: "s", Uncertainty: iv.HalfWidth(), HasUncertainty: true}
+	switch {
+	case iv.Contains(0, 0):
+		c.Status = Agrees
+		c.Sentence = fmt.Sprintf("The camera clock agrees with the GPS clock (difference %s, within the allowance for fix lag and the GPS–UTC leap seconds).", signedDuration(off))
+	case step != 0:
+		c.Status = Conflicts
+		c.Sentence = fmt.Sprintf("The claimed instant is %s from the GPS clock: a step of %s plus a residual of %s.", signedDuration(off), signedDuration(step), signedDuration(off-step))
+	default:
+		c.Status = Conflicts
+		c.Sentence = fmt.Sprintf("The claimed instant is %s from the GPS clock.", signedDuration(off))
+	}
+	f.check(c)
+	f.gpsOffset = &iv
+}
+
+// checkOffsetTag compares the camera's own offset tag with the offset of the
+// zone at the place on that date.
+func (x *Examiner) checkOffsetTag(f *Finding) {
+	if !f.Wall.HasOffset || !f.HasPlace {
+		return
+	}
+	pl, err := x.zones.Lookup(f.LatDeg, f.LonDeg)
+	if err != nil || len(pl.Zones) == 0 {
+		return
+	}
+	var offs []int
+	for _, name := range pl.Zones {
+		loc, err := x.zones.DB().Load(name)
+		if err != nil {
+			continue
+		}
+		_, o := f.Claimed.In(loc).Zone()
+		offs = append(offs, o)
+		if o == f.Wall.OffsetSec {
+			f.check(Check{Kind: KindOffsetTag, Status: Agrees, Figure: 0, HasFigure: true, Unit: "s",
+				Sentence: fmt.Sprintf("The camera's offset tag (%s) matches the zone at the place (%s) on that date.", offsetLabel(f.Wall.OffsetSec), name)})
+			return
+		}
+	}
+	if len(offs) == 0 {
+		return
+	}
+	d := f.Wall.OffsetSec - offs[0]
+	f.check(Check{Kind: KindOffsetTag, Status: Conflicts, Figure: float64(d), HasFigure: true, Unit: "s",
+		Sentence: fmt.Sprintf("The camera's offset tag says %s but the place keeps %s (%s) on that date: the camera was set to another zone. The UTC instant follows the tag, which is right only if the clock showed that zone's time.",
+			offsetLabel(f.Wall.OffsetSec), offsetLabel(offs[0]), pl.Zones[0])})
+}
+
+// checkShadowPlace finds where on Earth the measured sun direction puts the
+// camera at the GPS receiver's time (package invert's Where), and compares
+// that with the GPS position.
+func (x *Examiner) checkShadowPlace(f *Finding, rec exifread.Record) {
+	g := rec.GPS.Time
+	if f.PlaceSource != "gps" || g == nil || !g.Valid || !g.HasDate || len(f.Measured) == 0 {
+		return
+	}
+	m, _, _ := combine(f.Measured)
+	if !m.HasAzimuth || !m.HasAltitude {
+		return
+	}
+	fixes, err := invert.Where(invert.WhereQuery{
+		Time: g.UTC, Measurement: m, ElevationM: f.ElevationM,
+		PressureHPa: spa.DefaultPressureHPa, TemperatureC: spa.DefaultTemperatureC, DeltaT: x.deltaTFunc(),
+	})
+	if err != nil {
+		f.check(Check{Kind: KindShadowPlace, Status: Skipped, Sentence: "The place search failed: " + err.Error() + "."})
+		return
+	}
+	// Where gives two places when the circle of equal altitude encloses a
+	// pole; the one nearer the GPS tag is the fair comparison.
+	fix := fixes[0]
+	for _, o := range fixes[1:] {
+		if greatCircleKm(f.LatDeg, f.LonDeg, o.LatDeg, o.LonDeg) < greatCircleKm(f.LatDeg, f.LonDeg, fix.LatDeg, fix.LonDeg) {
+			fix = o
+		}
+	}
+	f.ShadowFix = &Fix{LatDeg: fix.LatDeg, LonDeg: fix.LonDeg, RadiusKm: fix.RadiusKm}
+	dist := greatCircleKm(f.LatDeg, f.LonDeg, fix.LatDeg, fix.LonDeg)
+	c := Check{Kind: KindShadowPlace, Figure: dist, HasFigure: true, Unit: "km", Uncertainty: fix.RadiusKm, HasUncertainty: true}
+	if dist <= fix.RadiusKm {
+		c.Status = Agrees
+		c.Sentence = fmt.Sprintf("At the GPS time the shadows place the camera %.0f km from its GPS tag, within their 95 %% radius of %.0f km.", dist, fix.RadiusKm)
+	} else {
+		c.Status = Conflicts
+		c.Sentence = fmt.Sprintf("At the GPS time the shadows place the camera %.0f km from its GPS tag, beyond their 95 %% radius of %.0f km.", dist, fix.RadiusKm)
+	}
+	f.check(c)
+}
+
+// greatCircleKm is the haversine distance on a sphere of radius 6371 km.
+func greatCircleKm(lat1, lon1, lat2, lon2 float64) float64 {
+	const r = 6371.0
+	p1, p2 := lat1*math.Pi/180, lat2*math.Pi/180
+	dp, dl := p2-p1, (lon2-lon1)*math.Pi/180
+	a := math.Sin(dp/2)*math.Sin(dp/2) + math.Cos(p1)*math.Cos(p2)*math.Sin(dl/2)*math.Sin(dl/2)
+	return 2 * r * math.Asin(math.Min(1, math.Sqrt(a)))
+}
+
+// offsetLabel formats an offset from UTC as "UTC+05:30".
+func offsetLabel(sec int) string {
+	sign := '+'
+	if sec < 0 {
+		sign, sec = '-', -sec
+	}
+	return fmt.Sprintf("UTC%c%02d:%02d", sign, sec/3600, sec%3600/60)
+}
+
+// signedDuration formats seconds as "+2 h 47 min 05 s".
+func signedDuration(sec float64) string {
+	sign := "+"
+	if sec < 0 {
+		sign, sec = "−", -sec
+	}
+	s := int64(math.Round(sec))
+	h, m, r := s/3600, s%3600/60, s%60
+	switch {
+	case h > 0:
+		return fmt.Sprintf("%s%d h %02d min %02d s", sign, h, m, r)
+	case m > 0:
+		return fmt.Sprintf("%s%d min %02d s", sign, m, r)
+	default:
+		return fmt.Sprintf("%s%d s", sign, r)
+	}
+}
+
+func absDur(d time.Duration) time.Duration {
+	if d < 0 {
+		return -d
+	}
+	return d
+}
+
+// zoneOffsets returns the offsets (seconds) of the zones at the place at t.
+func (x *Examiner) zoneOffsets(f *Finding, t time.Time) []zoneAt {
+	if !f.HasPlace {
+		return nil
+	}
+	pl, err := x.zones.Lookup(f.LatDeg, f.LonDeg)
+	if err != nil {
+		return nil
+	}
+	var out []zoneAt
+	for _, name := range pl.Zones {
+		loc, err := x.zones.DB().Load(name)
+		if err != nil {
+			continue
+		}
+		out = append(out, zoneAt{name: name, loc: loc})
+	}
+	return out
+}
+
+type zoneAt struct {
+	name string
+	loc  *time.Location
+}
+
+// keepsDST reports whether loc's offset differs between January and July of
+// t's year, i.e. whether the place changes its clocks that year.
+func keepsDST(loc *time.Location, t time.Time) bool {
+	y := t.Year()
+	_, a := time.Date(y, 1, 15, 12, 0, 0, 0, time.UTC).In(loc).Zone()
+	_, b := time.Date(y, 7, 15, 12, 0, 0, 0, time.UTC).In(loc).Zone()
+	return a != b
+}

@@ -1,0 +1,220 @@
+package solarcheck
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+	"time"
+)
+
+// stepSlackSec is how close the evidence interval must come to a whole step
+// (1 h, 12 h, a zone difference) for the step to explain the offset: a
+// camera left on home time may also be a minute or two off (common practice).
+const stepSlackSec = 120
+
+// hypothesis is one explanation of a time offset: claimed − true = Sec.
+type hypothesis struct {
+	verdict Verdict
+	sec     float64
+	label   string
+}
+
+// diagnose chooses the verdict for f from its checks. The order of
+// precedence: a different place, a different season, then the time offset
+// the witnesses give (tested against the competing explanations), then the
+// light, then nothing.
+func diagnose(f *Finding, x *Examiner) {
+	iv, source := timeEvidence(f)
+
+	if c, ok := f.Check(KindShadowPlace); ok && c.Status == Conflicts {
+		f.Verdict = PlaceMismatch
+		f.Explanation = c.Sentence + " The photo may not have been taken where its GPS tag says, or the tag belongs to another moment."
+		if iv != nil {
+			f.setOffset(*iv)
+		}
+		return
+	}
+	if f.seasonOff {
+		c, _ := f.Check(KindShadowTime)
+		f.Verdict = SeasonMismatch
+		f.Explanation = c.Sentence
+		return
+	}
+	if iv == nil {
+		if f.lightOff {
+			c, _ := f.Check(KindLight)
+			f.Verdict = LightMismatch
+			f.Explanation = c.Sentence + " No other witness fixes the time; this is a hint, not proof."
+			return
+		}
+		if c, ok := f.Check(KindSunUp); ok && c.Status == Conflicts {
+			f.Verdict = LightMismatch
+			f.Explanation = c.Sentence
+			return
+		}
+		f.Verdict = Unverified
+		f.Explanation = "No independent witness (shadows, sightings or a GPS clock) was available for this photo; its time is neither confirmed nor contradicted."
+		return
+	}
+	f.setOffset(*iv)
+	x.judgeOffset(f, *iv, source)
+}
+
+// timeEvidence returns the interval the time witnesses give, and names them.
+// When both shadows and the GPS clock speak and their intervals overlap, the
+// narrower (the GPS clock, as a rule) is used; when they contradict each
+// other, the narrower is used and the contradiction is said.
+func timeEvidence(f *Finding) (*Interval, string) {
+	s, g := f.shadowOffset, f.gpsOffset
+	switch {
+	case s == nil && g == nil:
+		return nil, ""
+	case s == nil:
+		return g, "the GPS clock"
+	case g == nil:
+		return s, "the shadows"
+	}
+	overlap := s.LowSec <= g.HighSec && g.LowSec <= s.HighSec
+	best, name := g, "the GPS clock"
+	if s.HalfWidth() < g.HalfWidth() {
+		best, name = s, "the shadows"
+	}
+	if !overlap {
+		f.Rejected = append(f.Rejected, Alternative{Verdict: Consistent,
+			Reason: fmt.Sprintf("the shadows (%s) and the GPS clock (%s) disagree with each other; %s, the narrower, is used", signedDuration(s.Sec), signedDuration(g.Sec), name)})
+		return best, name
+	}
+	return best, "the shadows and the GPS clock"
+}
+
+// setOffset records iv and the corrected UTC window it implies.
+func (f *Finding) setOffset(iv Interval) {
+	f.Offset = &iv
+	f.Earliest = f.Claimed.Add(-secDur(iv.HighSec))
+	f.Latest = f.Claimed.Add(-secDur(iv.LowSec))
+}
+
+// judgeOffset tests the explanations of a time offset against iv.
+func (x *Examiner) judgeOffset(f *Finding, iv Interval, source string) {
+	hyps := x.hypotheses(f, iv)
+	var accepted []hypothesis
+	for _, h := range hyps {
+		slack := float64(stepSlackSec)
+		if h.verdict == Consistent {
+			slack = 0
+		}
+		if iv.Contains(h.sec, slack) {
+			accepted = append(accepted, h)
+		} else if h.verdict != ZoneSlip || math.Abs(h.sec) == 3600 {
+			f.Rejected = append(f.Rejected, Alternative{Verdict: h.verdict,
+				Reason: fmt.Sprintf("%s: the 95 %% interval of the offset (%s to %s) does not reach %s", h.label, signedDuration(iv.LowSec), signedDuration(iv.HighSec), signedDuration(h.sec))})
+		}
+	}
+	ivText := fmt.Sprintf("%s (95 %% interval %s to %s, from %s)", signedDuration(iv.Sec), signedDuration(iv.LowSec), signedDuration(iv.HighSec), source)
+	if len(accepted) == 0 {
+		f.stepSec = 0
+		f.Verdict = ClockOffset
+		f.Explanation = fmt.Sprintf("The claimed time is off by %s, which is not a time-zone, daylight-saving or 12-hour step: the camera clock was wrong, or the time was changed.", ivText)
+		return
+	}
+	// Consistent wins whenever the interval reaches zero; otherwise the
+	// step nearest the estimate, the specific steps before general zone steps.
+	sort.SliceStable(accepted, func(i, j int) bool {
+		if (accepted[i].verdict == Consistent) != (accepted[j].verdict == Consistent) {
+			return accepted[i].verdict == Consistent
+		}
+		di, dj := math.Abs(accepted[i].sec-iv.Sec), math.Abs(accepted[j].sec-iv.Sec)
+		if di != dj {
+			return di < dj
+		}
+		return rank(accepted[i].verdict) < rank(accepted[j].verdict)
+	})
+	h := accepted[0]
+	f.stepSec = h.sec
+	for _, o := range accepted[1:] {
+		if o.verdict != h.verdict {
+			f.Rejected = append(f.Rejected, Alternative{Verdict: o.verdict,
+				Reason: fmt.Sprintf("%s also fits the interval but lies farther from the estimate than %s", o.label, h.label)})
+		}
+	}
+	f.Verdict = h.verdict
+	switch h.verdict {
+	case Consistent:
+		f.Explanation = fmt.Sprintf("The claimed time is consistent with the evidence at the stated uncertainty: offset %s.", ivText)
+	case DSTSlip:
+		f.Explanation = fmt.Sprintf("The claimed time is off by %s, one hour at a place that keeps daylight saving: the camera most likely missed a daylight-saving change.", ivText)
+	case AMPMSlip:
+		f.Explanation = fmt.Sprintf("The claimed time is off by %s, twelve hours: an AM/PM slip in setting the clock is the likely cause.", ivText)
+	case ZoneSlip:
+		f.Explanation = fmt.Sprintf("The claimed time is off by %s, a whole time-zone step: the camera was most likely on %s.", ivText, h.label)
+	}
+}
+
+func rank(v Verdict) int {
+	switch v {
+	case Consistent:
+		return 0
+	case AMPMSlip:
+		return 1
+	case DSTSlip:
+		return 2
+	}
+	return 3
+}
+
+// hypotheses lists the explanations to test for f's offset: no error, a
+// missed daylight-saving change (only where the place keeps DST), a 12-hour
+// slip, and whole zone steps. Whole-hour steps are always tried; quarter-
+// and half-hour steps only when the interval is narrow enough (half-width
+// under 7.5 min) to tell them apart.
+func (x *Examiner) hypotheses(f *Finding, iv Interval) []hypothesis {
+	hs := []hypothesis{{Consistent, 0, "no clock error"}}
+	zs := x.zoneOffsets(f, f.Claimed)
+	dst := false
+	for _, z := range zs {
+		if keepsDST(z.loc, f.Claimed) {
+			dst = true
+		}
+	}
+	if dst {
+		hs = append(hs, hypothesis{DSTSlip, 3600, "a missed daylight-saving change (+1 h)"}, hypothesis{DSTSlip, -3600, "a missed daylight-saving change (−1 h)"})
+	}
+	hs = append(hs, hypothesis{AMPMSlip, 43200, "an AM/PM slip (+12 h)"}, hypothesis{AMPMSlip, -43200, "an AM/PM slip (−12 h)"})
+	step := 3600.0
+	if iv.HalfWidth() < 450 {
+		step = 900
+	}
+	placeOff := 0
+	switch {
+	case f.Wall.HasOffset:
+		placeOff = f.Wall.OffsetSec
+	case len(zs) > 0:
+		_, placeOff = f.Claimed.In(zs[0].loc).Zone()
+	}
+	inUse := x.offsetsInUse(f.Claimed)
+	for s := -14 * 3600.0; s <= 14*3600; s += step {
+		if s == 0 || math.Abs(s) == 43200 || (dst && math.Abs(s) == 3600) {
+			continue
+		}
+		home := placeOff + int(s)
+		if !inUse[home] {
+			continue // no zone kept that offset on that day
+		}
+		hs = append(hs, hypothesis{ZoneSlip, s, fmt.Sprintf("the time of a zone at %s", offsetLabel(home))})
+	}
+	return hs
+}
+
+func secDur(s float64) time.Duration { return time.Duration(math.Round(s * 1e9)) }
+
+// sentenceList joins items as "a, b and c".
+func sentenceList(items []string) string {
+	switch len(items) {
+	case 0:
+		return ""
+	case 1:
+		return items[0]
+	}
+	return strings.Join(items[:len(items)-1], ", ") + " and " + items[len(items)-1]
+}

@@ -1,0 +1,265 @@
+package solarcheck
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sync"
+	"time"
+
+	"github.com/gnomon-forensics/gnomon/exifread"
+	"github.com/gnomon-forensics/gnomon/solarcheck/clock"
+	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
+	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
+)
+
+// Examiner runs the per-photo checks. It holds what is costly to build once
+// (the zone finder and its tz database); create one per audit with
+// NewExaminer and share it between goroutines: Examine is safe for
+// concurrent use.
+type Examiner struct {
+	zones *zone.Finder
+	// deltaT overrides ΔT (seconds) when non-nil; otherwise spa.DeltaT.
+	deltaT *float64
+
+	// offsetsMu guards offsetsByDay, the UTC offsets in use somewhere in
+	// the world on a day (from every zone of the tz database), which the
+	// diagnosis needs to name zone steps that really exist.
+	offsetsMu    sync.Mutex
+	offsetsByDay map[string]map[int]bool
+}
+
+// Options configure an Examiner.
+type Options struct {
+	// Zones looks up the zone at a place; nil builds one over the embedded
+	// tz database.
+	Zones *zone.Finder
+	// DeltaTSec overrides the ΔT model (seconds) when non-nil.
+	DeltaTSec *float64
+}
+
+// NewExaminer returns an Examiner.
+func NewExaminer(o Options) *Examiner {
+	z := o.Zones
+	if z == nil {
+		z = zone.NewFinder(nil)
+	}
+	return &Examiner{zones: z, deltaT: o.DeltaTSec, offsetsByDay: map[string]map[int]bool{}}
+}
+
+// offsetsInUse returns the set of UTC offsets (seconds) that some zone of
+// the tz database kept at t. Built once per UTC day and cached.
+func (x *Examiner) offsetsInUse(t time.Time) map[int]bool {
+	day := t.UTC().Format(time.DateOnly)
+	x.offsetsMu.Lock()
+	defer x.offsetsMu.Unlock()
+	if m, ok := x.offsetsByDay[day]; ok {
+		return m
+	}
+	m := map[int]bool{}
+	names, err := x.zones.DB().Names()
+	if err == nil {
+		for _, n := range names {
+			if loc, err := x.zones.DB().Load(n); err == nil {
+				_, off := t.In(loc).Zone()
+				m[off] = true
+			}
+		}
+	}
+	x.offsetsByDay[day] = m
+	return m
+}
+
+// Zones returns the zone finder the examiner uses.
+func (x *Examiner) Zones() *zone.Finder { return x.zones }
+
+// deltaTAt returns ΔT for t.
+func (x *Examiner) deltaTAt(t time.Time) float64 {
+	if x.deltaT != nil {
+		return *x.deltaT
+	}
+	return spa.DeltaT(t)
+}
+
+// sunAt is the SPA position at t from the finding's place.
+func (x *Examiner) sunAt(f *Finding, t time.Time) spa.Position {
+	return spa.At(t, spa.NewObserver(f.LatDeg, f.LonDeg, f.ElevationM), x.deltaTAt(t))
+}
+
+// Examine runs every check on one photo and diagnoses it. It never fails:
+// what cannot be judged is said in the finding.
+func (x *Examiner) Examine(p Photo) Finding {
+	rec := p.Record
+	f := Finding{Path: p.Path, Camera: clock.CameraID(rec.Make, rec.Model, rec.BodySerialNumber)}
+
+	wall, tag, wallErr := captureWall(rec)
+	f.Wall, f.WallTag = wall, tag
+	x.place(&f, p)
+	if f.HasPlace {
+		if pl, err := x.zones.Lookup(f.LatDeg, f.LonDeg); err == nil {
+			f.PlaceZones = pl.Zones
+		}
+	}
+
+	if wallErr != nil && rec.Err != nil {
+		f.Verdict = Unreadable
+		f.Explanation = fmt.Sprintf("The file could not be read well enough to judge: %v.", rec.Err)
+		return f
+	}
+
+	override := sheetTimeOverride(p)
+	if wall.IsZero() && override.wall != nil {
+		f.Wall, f.WallTag = *override.wall, "sheet time"
+	}
+	if f.Wall.IsZero() && override.text == "" {
+		f.Verdict = Unverified
+		f.Explanation = "The file holds no usable capture time"
+		if wallErr != nil {
+			f.Explanation += " (" + wallErr.Error() + ")"
+		}
+		f.Explanation += "; there is no claim to check."
+		return f
+	}
+
+	claim, err := x.zones.Claim(zone.ClaimInput{
+		Wall:     f.Wall,
+		Override: override.text,
+		HasPlace: f.HasPlace,
+		LatDeg:   f.LatDeg,
+		LonDeg:   f.LonDeg,
+	})
+	f.Claim = claim
+	if err != nil || len(claim.Candidates) == 0 {
+		f.Verdict = Unverified
+		f.Explanation = "The claimed time could not be placed in UTC"
+		if err != nil {
+			f.Explanation += ": " + err.Error()
+		}
+		f.Explanation += ". Without a place or an offset the sun cannot be consulted."
+		return f
+	}
+	f.Claimed, f.HasClaimed = claim.Candidates[0].UTC, true
+
+	x.runChecks(&f, p)
+	diagnose(&f, x)
+	return f
+}
+
+// runChecks consults every witness against f.Claimed.
+func (x *Examiner) runChecks(f *Finding, p Photo) {
+	if f.HasPlace {
+		pos := x.sunAt(f, f.Claimed)
+		f.Sun = &SunSample{Time: f.Claimed, AzimuthDeg: pos.AzimuthDeg, AltitudeDeg: pos.AltitudeDeg}
+	}
+	x.checkShadows(f, p)
+	x.checkGPSClock(f, p.Record)
+	x.checkOffsetTag(f)
+	x.checkLight(f, p.Record)
+	x.checkShadowPlace(f, p.Record)
+}
+
+// SunPath samples the sun every 10 minutes over the 24 hours centred on the
+// claimed moment, for the report's sky chart; nil when the finding has no
+// place or claim. It is computed on demand, not kept in every finding, so
+// that a large batch does not hold a day of sun positions per photo.
+func (x *Examiner) SunPath(f *Finding) []SunSample {
+	if !f.HasPlace || !f.HasClaimed {
+		return nil
+	}
+	const step = 10 * time.Minute
+	start := f.Claimed.Add(-12 * time.Hour).Truncate(step)
+	o := spa.NewObserver(f.LatDeg, f.LonDeg, f.ElevationM)
+	dt := x.deltaTAt(f.Claimed)
+	g := make([]SunSample, 0, 145)
+	for t := start; !t.After(start.Add(24 * time.Hour)); t = t.Add(step) {
+		pos := spa.At(t, o, dt)
+		g = append(g, SunSample{Time: t, AzimuthDeg: pos.AzimuthDeg, AltitudeDeg: pos.AltitudeDeg})
+	}
+	return g
+}
+
+// captureWall picks the capture time as written: DateTimeOriginal, else
+// DateTimeDigitized, else DateTime (the last is often the time of an edit,
+// which the sentence of any finding should keep in mind).
+func captureWall(rec exifread.Record) (zone.Wall, string, error) {
+	var firstErr error
+	for _, c := range []struct {
+		tag string
+		w   *exifread.WallTime
+	}{
+		{"DateTimeOriginal", rec.DateTimeOriginal},
+		{"DateTimeDigitized", rec.DateTimeDigitized},
+		{"DateTime", rec.DateTime},
+	} {
+		if c.w == nil {
+			continue
+		}
+		if !c.w.Valid {
+			if firstErr == nil {
+				firstErr = fmt.Errorf("%s %q is not usable: %s", c.tag, c.w.Raw, c.w.Invalid)
+			}
+			continue
+		}
+		w := zone.Wall{
+			Year: c.w.Year, Month: time.Month(c.w.Month), Day: c.w.Day,
+			Hour: c.w.Hour, Minute: c.w.Minute, Second: c.w.Second, Nanosecond: c.w.Nanosecond,
+		}
+		if c.w.OffsetSec != nil {
+			w.HasOffset, w.OffsetSec = true, *c.w.OffsetSec
+		}
+		if err := w.Validate(); err != nil {
+			if firstErr == nil {
+				firstErr = fmt.Errorf("%s %q: %w", c.tag, c.w.Raw, err)
+			}
+			continue
+		}
+		return w, c.tag, nil
+	}
+	if firstErr == nil {
+		firstErr = errors.New("no capture time tag")
+	}
+	return zone.Wall{}, "", firstErr
+}
+
+// place decides where the photo was taken: the GPS tag when valid, else the
+// examiner's lat/lon from the sheet.
+func (x *Examiner) place(f *Finding, p Photo) {
+	g := p.Record.GPS
+	if g.Position != nil && g.Position.Valid && g.Position.LatDeg != nil && g.Position.LonDeg != nil {
+		f.LatDeg, f.LonDeg, f.HasPlace, f.PlaceSource = *g.Position.LatDeg, *g.Position.LonDeg, true, "gps"
+		if g.AltitudeM != nil && g.AltitudeM.Valid && !math.IsNaN(g.AltitudeM.Value) {
+			f.ElevationM = g.AltitudeM.Value
+		}
+		return
+	}
+	for _, r := range p.Rows {
+		if r.Lat != nil && r.Lon != nil {
+			f.LatDeg, f.LonDeg, f.HasPlace, f.PlaceSource = *r.Lat, *r.Lon, true, "sheet"
+			return
+		}
+	}
+}
+
+// timeOverride is the examiner's time for a photo: either a full override
+// text for zone.Claim (RFC 3339) or a wall reading for a photo that has none.
+type timeOverride struct {
+	text string
+	wall *zone.Wall
+}
+
+func sheetTimeOverride(p Photo) timeOverride {
+	for _, r := range p.Rows {
+		if r.Time == nil {
+			continue
+		}
+		if r.Time.HasOffset {
+			return timeOverride{text: r.Time.Instant.Format(time.RFC3339Nano)}
+		}
+		t := r.Time.Instant
+		return timeOverride{wall: &zone.Wall{
+			Year: t.Year(), Month: t.Month(), Day: t.Day(),
+			Hour: t.Hour(), Minute: t.Minute(), Second: t.Second(), Nanosecond: t.Nanosecond(),
+		}}
+	}
+	return timeOverride{}
+}

@@ -1,0 +1,184 @@
+package solarcheck
+
+import (
+	"time"
+
+	"github.com/gnomon-forensics/gnomon/exifread"
+	"github.com/gnomon-forensics/gnomon/solarcheck/sheet"
+	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
+)
+
+// Verdict is the diagnosis of one photo. The words are binding: they are the
+// JSON field "verdict" of the report and scripts depend on them.
+type Verdict string
+
+// The verdicts, from "the evidence agrees" to "nothing to judge".
+const (
+	Consistent     Verdict = "consistent"      // every witness agrees with the claim at the stated uncertainty
+	ClockOffset    Verdict = "clock_offset"    // off by an amount that is not a zone, DST or 12 h step
+	ZoneSlip       Verdict = "zone_slip"       // off by whole zone increments (a camera on another zone's time)
+	DSTSlip        Verdict = "dst_slip"        // off by one hour where the place keeps daylight saving
+	AMPMSlip       Verdict = "ampm_slip"       // off by 12 hours
+	SeasonMismatch Verdict = "season_mismatch" // no time on the claimed date fits the shadows; another date does
+	PlaceMismatch  Verdict = "place_mismatch"  // the shadows put the camera somewhere else than its GPS tag
+	LightMismatch  Verdict = "light_mismatch"  // the exposure does not fit the light at the claimed moment
+	Unverified     Verdict = "unverified"      // no independent witness
+	Unreadable     Verdict = "unreadable"      // the file could not be read well enough to judge
+)
+
+// Status is the outcome of one check.
+type Status string
+
+// Check statuses.
+const (
+	Agrees    Status = "agrees"    // the witness fits the claim within its 95 % interval
+	Conflicts Status = "conflicts" // the witness excludes the claim at the 95 % level
+	Open      Status = "open"      // the witness was consulted but cannot decide
+	Skipped   Status = "skipped"   // the check did not apply (no witness, or a reason given)
+)
+
+// Check kinds: our names for the independent witnesses.
+const (
+	KindShadowTime   = "shadow_time"  // sun direction from shadows/sightings vs the sun at the claimed moment
+	KindSunUp        = "sun_up"       // shadows need the sun above the horizon
+	KindGPSClock     = "gps_clock"    // camera clock vs the GPS receiver's UTC
+	KindOffsetTag    = "offset_tag"   // the camera's OffsetTime tag vs the place's zone
+	KindLight        = "light"        // exposure vs expected daylight (a hint)
+	KindShadowPlace  = "shadow_place" // position from the shadows vs the GPS tag
+	KindCameraClock  = "camera_clock" // this photo vs its camera's fitted clock
+	KindShotOrder    = "shot_order"   // capture order vs file numbering
+	KindMeasurements = "measurements" // agreement between the objects measured in one photo
+)
+
+// Check is one witness's testimony about one photo.
+type Check struct {
+	Kind   string
+	Status Status
+	// Figure is the check's number in Unit (an offset in seconds, a distance
+	// in km, an exposure difference in EV); HasFigure is false when there is none.
+	Figure    float64
+	HasFigure bool
+	Unit      string
+	// Uncertainty is the half-width of the figure's 95 % interval, same unit.
+	Uncertainty    float64
+	HasUncertainty bool
+	Sentence       string
+}
+
+// Interval is a time offset in seconds (claimed minus evidence) with its 95 %
+// interval [LowSec, HighSec].
+type Interval struct {
+	Sec, LowSec, HighSec float64
+}
+
+// HalfWidth is half the interval's width, in seconds.
+func (iv Interval) HalfWidth() float64 { return (iv.HighSec - iv.LowSec) / 2 }
+
+// Contains reports whether x lies in the interval widened by slack on both sides.
+func (iv Interval) Contains(x, slackSec float64) bool {
+	return x >= iv.LowSec-slackSec && x <= iv.HighSec+slackSec
+}
+
+// Alternative is an explanation that was tested and rejected, with why.
+type Alternative struct {
+	Verdict Verdict
+	Reason  string
+}
+
+// SunSample is the sun at one instant.
+type SunSample struct {
+	Time        time.Time
+	AzimuthDeg  float64
+	AltitudeDeg float64
+}
+
+// Direction is one measured sun direction (from a shadow or a sighting) in
+// true-north degrees, with 1-sigma errors.
+type Direction struct {
+	Object        string
+	AzimuthDeg    float64
+	AzimuthSDDeg  float64
+	HasAzimuth    bool
+	AltitudeDeg   float64
+	AltitudeSDDeg float64
+	HasAltitude   bool
+	Correlation   float64
+}
+
+// Fix is a place on Earth with a 95 % radius.
+type Fix struct {
+	LatDeg, LonDeg, RadiusKm float64
+}
+
+// Photo is the input for one photo: what the file says and what the
+// examiner measured in it.
+type Photo struct {
+	// Path identifies the photo in messages and reports (relative to its
+	// input root, slash form).
+	Path   string
+	Record exifread.Record
+	// Rows are the measurement-sheet rows resolved to this photo.
+	Rows []sheet.Row
+}
+
+// Finding is everything the checks concluded about one photo.
+type Finding struct {
+	Path   string
+	Camera string // camera id (clock.CameraID); "" when the file names none
+
+	// Wall is the capture wall time used, and WallTag which tag it came from.
+	Wall    zone.Wall
+	WallTag string
+	// Claim is how the claimed UTC instant was decided; Claimed is the
+	// instant used for the checks (the candidate the evidence fits best
+	// when a DST gap/fold or overlapping zones give several).
+	Claim      zone.Claimed
+	Claimed    time.Time
+	HasClaimed bool
+
+	// Place is where the photo was taken, by PlaceSource ("gps" or "sheet"),
+	// and PlaceZones the IANA zones that hold there (several where zones
+	// overlap).
+	LatDeg, LonDeg float64
+	HasPlace       bool
+	PlaceSource    string
+	ElevationM     float64
+	PlaceZones     []string
+
+	Sun      *SunSample  // at the claimed moment and place
+	BestFit  *SunSample  // the sun at the best-fitting shadow time
+	Measured []Direction // per object, true north
+	Checks   []Check
+
+	Verdict     Verdict
+	Offset      *Interval // claimed minus evidence, seconds; nil without a time witness
+	Earliest    time.Time // corrected UTC window; zero without one
+	Latest      time.Time
+	Explanation string
+	Rejected    []Alternative
+	ShadowFix   *Fix
+
+	// FromCamera marks a corrected window that comes from the camera's
+	// clock model rather than the photo's own witnesses.
+	FromCamera bool
+
+	// Time witnesses gathered by the checks, for the diagnosis.
+	shadowOffset *Interval // from the shadows, nil without
+	gpsOffset    *Interval // from the GPS clock, nil without
+	seasonOff    bool      // shadows fit another season only
+	lightOff     bool      // the exposure conflicts with the light at the claim
+	stepSec      float64   // the step (zone, DST, 12 h) the verdict names; 0 for none
+}
+
+// check appends c to f's checks.
+func (f *Finding) check(c Check) { f.Checks = append(f.Checks, c) }
+
+// Check returns the check of the given kind, if f has one.
+func (f *Finding) Check(kind string) (Check, bool) {
+	for _, c := range f.Checks {
+		if c.Kind == kind {
+			return c, true
+		}
+	}
+	return Check{}, false
+}

@@ -1,0 +1,155 @@
+package solarcheck
+
+import (
+	"fmt"
+	"math"
+	"time"
+
+	"github.com/gnomon-forensics/gnomon/solarcheck/geomag"
+	"github.com/gnomon-forensics/gnomon/solarcheck/invert"
+	"github.com/gnomon-forensics/gnomon/solarcheck/shadow"
+	"github.com/gnomon-forensics/gnomon/solarcheck/sheet"
+)
+
+// directions turns the sheet rows of a photo into sun directions in
+// true-north degrees, one per measured object. Rows that cannot be turned
+// (a magnetic bearing outside the magnetic model's years with no explicit
+// declination, a shadow the geometry refuses) are reported in problems.
+func directions(rows []sheet.Row, latDeg, lonDeg float64, hasPlace bool, at time.Time) (ds []Direction, problems []string) {
+	for _, r := range rows {
+		if r.Kind != sheet.KindShadow && r.Kind != sheet.KindShadowBearing && r.Kind != sheet.KindSighting {
+			continue
+		}
+		corr, err := bearingCorrection(r, latDeg, lonDeg, hasPlace, at)
+		if err != nil {
+			problems = append(problems, fmt.Sprintf("%s line %d: %v", r.File, r.Line, err))
+			continue
+		}
+		d := Direction{Object: r.Object}
+		switch r.Kind {
+		case sheet.KindShadow:
+			est, err := shadow.Propagate(shadow.Shadow{
+				Height:     *r.ObjectHeight,
+				Length:     *r.ShadowLength,
+				BearingDeg: norm360(*r.ShadowBearingDeg + corr),
+				Ground:     shadow.Ground{SlopeDeg: r.SlopeDeg, TowardDeg: norm360(r.SlopeTowardDeg + corr)},
+			}, shadow.Uncertainty{LengthSDPct: r.LengthSDPct, BearingSDDeg: r.BearingSDDeg})
+			if err != nil {
+				problems = append(problems, fmt.Sprintf("%s line %d: %v", r.File, r.Line, err))
+				continue
+			}
+			d.AzimuthDeg, d.AzimuthSDDeg, d.HasAzimuth = est.Sun.AzimuthDeg, est.AzimuthSDDeg, true
+			d.AltitudeDeg, d.AltitudeSDDeg, d.HasAltitude = est.Sun.AltitudeDeg, est.AltitudeSDDeg, true
+			d.Correlation = est.Correlation
+		case sheet.KindShadowBearing:
+			d.AzimuthDeg, d.AzimuthSDDeg, d.HasAzimuth = norm360(*r.ShadowBearingDeg+corr+180), r.BearingSDDeg, true
+		case sheet.KindSighting:
+			if r.SunAzimuthDeg != nil {
+				d.AzimuthDeg, d.AzimuthSDDeg, d.HasAzimuth = norm360(*r.SunAzimuthDeg+corr), r.BearingSDDeg, true
+			}
+			if r.SunAltitudeDeg != nil {
+				// A sighted altitude is taken with the same 1-sigma as the bearing.
+				d.AltitudeDeg, d.AltitudeSDDeg, d.HasAltitude = *r.SunAltitudeDeg, r.BearingSDDeg, true
+			}
+		}
+		ds = append(ds, d)
+	}
+	return ds, problems
+}
+
+// bearingCorrection is what to add to a bearing in the row's reference to
+// make it a true bearing: the magnetic declination (east positive) for
+// magnetic bearings, the grid convergence for grid bearings.
+func bearingCorrection(r sheet.Row, latDeg, lonDeg float64, hasPlace bool, at time.Time) (float64, error) {
+	switch r.BearingRef {
+	case sheet.RefMagnetic:
+		if r.DeclinationDeg != nil {
+			return *r.DeclinationDeg, nil
+		}
+		if !hasPlace {
+			return 0, fmt.Errorf("magnetic bearing needs a place for the declination, or a declination column")
+		}
+		fld, err := geomag.At(latDeg, lonDeg, 0, at)
+		if err != nil {
+			return 0, fmt.Errorf("magnetic bearing: %w; give the declination in the sheet's declination column", err)
+		}
+		return fld.Main.DeclinationDeg, nil
+	case sheet.RefGrid:
+		if !hasPlace {
+			return 0, fmt.Errorf("grid bearing needs a place for the meridian convergence")
+		}
+		conv, _, err := geomag.Convergence(latDeg, lonDeg)
+		if err != nil {
+			return 0, fmt.Errorf("grid bearing: %w", err)
+		}
+		return geomag.GridToTrue(0, conv), nil
+	default:
+		return 0, nil
+	}
+}
+
+// combine merges the directions measured in one photo (all of the same sun
+// at the same instant) into one measurement: inverse-variance weighted means
+// of the azimuths (on the circle) and of the altitudes. It also returns the
+// chi-square of the objects about their mean and its degrees of freedom, so
+// that objects which disagree with each other can be reported.
+func combine(ds []Direction) (m invert.Measurement, spreadChi2 float64, dof int) {
+	var sx, sy, wAz, wAlt, sAlt, sCorr float64
+	nAz, nAlt := 0, 0
+	for _, d := range ds {
+		if d.HasAzimuth {
+			w := 1 / (d.AzimuthSDDeg * d.AzimuthSDDeg)
+			sx += w * math.Cos(d.AzimuthDeg*math.Pi/180)
+			sy += w * math.Sin(d.AzimuthDeg*math.Pi/180)
+			wAz += w
+			nAz++
+		}
+		if d.HasAltitude {
+			w := 1 / (d.AltitudeSDDeg * d.AltitudeSDDeg)
+			sAlt += w * d.AltitudeDeg
+			wAlt += w
+			nAlt++
+		}
+		if d.HasAzimuth && d.HasAltitude {
+			sCorr += d.Correlation
+		}
+	}
+	if nAz > 0 {
+		m.HasAzimuth = true
+		m.AzimuthDeg = norm360(math.Atan2(sy, sx) * 180 / math.Pi)
+		m.AzimuthSDDeg = 1 / math.Sqrt(wAz)
+	}
+	if nAlt > 0 {
+		m.HasAltitude = true
+		m.AltitudeDeg = sAlt / wAlt
+		m.AltitudeSDDeg = 1 / math.Sqrt(wAlt)
+	}
+	if nAz == 1 && nAlt == 1 && len(ds) == 1 {
+		m.Correlation = sCorr
+	}
+	for _, d := range ds {
+		if d.HasAzimuth {
+			r := wrap180(d.AzimuthDeg-m.AzimuthDeg) / d.AzimuthSDDeg
+			spreadChi2 += r * r
+		}
+		if d.HasAltitude {
+			r := (d.AltitudeDeg - m.AltitudeDeg) / d.AltitudeSDDeg
+			spreadChi2 += r * r
+		}
+	}
+	dof = max(nAz-1, 0) + max(nAlt-1, 0)
+	return m, spreadChi2, dof
+}
+
+func norm360(a float64) float64 {
+	a = math.Mod(a, 360)
+	if a < 0 {
+		a += 360
+	}
+	return a
+}
+
+func wrap180(a float64) float64 {
+	a = norm360(a + 180)
+	return a - 180
+}
