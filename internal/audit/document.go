@@ -1,0 +1,248 @@
+package audit
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"time"
+
+	"github.com/gnomon-forensics/gnomon/report"
+	"github.com/gnomon-forensics/gnomon/solarcheck"
+	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
+)
+
+// Header is what the command knows about the run, for the report's header.
+type Header struct {
+	Tool        report.Tool
+	Started     time.Time
+	Finished    time.Time
+	CommandLine []string
+	Inputs      []string
+	Sheet       string // path as given, "" for none
+	SheetSHA256 string
+	DeltaTModel string
+	TZData      string
+	ZoneMap     string
+	Magnetic    string
+	SelfTest    report.SelfTest
+	Notes       []string
+}
+
+// Document builds the report document from a finished run. withSunPaths
+// adds each photo's day of sun positions (for the HTML charts only; it is
+// not part of the JSON).
+func Document(res *Result, h Header, x *solarcheck.Examiner, withSunPaths bool) *report.Audit {
+	a := &report.Audit{
+		Schema: report.SchemaID,
+		Tool:   h.Tool,
+		Run: report.Run{
+			Started:        stamp(h.Started),
+			Finished:       stamp(h.Finished),
+			CommandLine:    h.CommandLine,
+			Inputs:         h.Inputs,
+			ShadowSheet:    h.Sheet,
+			ShadowSheetSHA: h.SheetSHA256,
+			DeltaTModel:    h.DeltaTModel,
+			TZDataVersion:  h.TZData,
+			ZoneMapVersion: h.ZoneMap,
+			MagneticModel:  h.Magnetic,
+			SelfTest:       h.SelfTest,
+			SheetErrors:    nonNil(res.SheetProblems),
+			Notes:          nonNil(h.Notes),
+			Counts:         report.Counts{ByVerdict: map[string]int{}},
+		},
+		Photos:  make([]report.Photo, 0, len(res.Items)),
+		Cameras: []report.Camera{},
+	}
+	for i := range res.Items {
+		p := photo(&res.Items[i])
+		if withSunPaths {
+			for _, s := range x.SunPath(&res.Items[i].Finding) {
+				p.SunPath = append(p.SunPath, sunAt(s))
+			}
+		}
+		a.Photos = append(a.Photos, p)
+		a.Run.Counts.ByVerdict[p.Verdict]++
+	}
+	a.Run.Counts.Files = len(a.Photos)
+	sort.SliceStable(a.Photos, func(i, j int) bool {
+		if a.Photos[i].Path != a.Photos[j].Path {
+			return a.Photos[i].Path < a.Photos[j].Path
+		}
+		return a.Photos[i].Root < a.Photos[j].Root
+	})
+	byPath := map[string]*solarcheck.Finding{}
+	for i := range res.Items {
+		byPath[res.Items[i].Finding.Path] = &res.Items[i].Finding
+	}
+	for _, c := range res.Cameras {
+		rc := camera(c, byPath)
+		if c.Fitted {
+			a.Run.Counts.Cameras++
+		}
+		a.Cameras = append(a.Cameras, rc)
+	}
+	return a
+}
+
+func photo(it *Item) report.Photo {
+	f, rec := &it.Finding, &it.Record
+	p := report.Photo{
+		Path:        it.Entry.Rel,
+		Root:        it.Entry.Root,
+		SHA256:      rec.SHA256,
+		Size:        rec.Size,
+		Container:   rec.Container,
+		Camera:      f.Camera,
+		ZoneOptions: []string{},
+		Checks:      []report.Check{},
+		Rejected:    []report.Alternative{},
+		Measured:    []report.Measured{},
+		Verdict:     string(f.Verdict),
+		Explanation: f.Explanation,
+		Error:       string(rec.Error),
+		Thumbnail:   it.Thumbnail,
+	}
+	if !f.Wall.IsZero() {
+		p.ClaimedLocal = wallText(f.Wall)
+	}
+	if f.HasClaimed {
+		p.ClaimSource = string(f.Claim.Rule)
+		p.ClaimedUTC = stamp(f.Claimed)
+	}
+	// The zone is the place's when the place is known (the claim may have
+	// used an offset tag instead); otherwise whatever the claim used.
+	switch {
+	case len(f.PlaceZones) > 0:
+		p.Zone, p.ZoneOptions = f.PlaceZones[0], f.PlaceZones
+	case len(f.Claim.Zones) > 0:
+		p.Zone, p.ZoneOptions = f.Claim.Zones[0], f.Claim.Zones
+	}
+	if f.HasPlace {
+		p.Lat, p.Lon = ptr(f.LatDeg), ptr(f.LonDeg)
+	}
+	if f.Sun != nil {
+		s := sunAt(*f.Sun)
+		p.Sun = &s
+	}
+	if f.BestFit != nil {
+		s := sunAt(*f.BestFit)
+		p.BestFit = &s
+	}
+	for _, c := range f.Checks {
+		rc := report.Check{Kind: c.Kind, Status: string(c.Status), Unit: c.Unit, Sentence: c.Sentence}
+		if c.HasFigure {
+			rc.Figure = ptr(round(c.Figure, 3))
+		}
+		if c.HasUncertainty {
+			rc.Uncertainty = ptr(round(c.Uncertainty, 3))
+		}
+		p.Checks = append(p.Checks, rc)
+	}
+	if f.Offset != nil {
+		p.OffsetS, p.OffsetLowS, p.OffsetHighS = ptr(round(f.Offset.Sec, 1)), ptr(round(f.Offset.LowSec, 1)), ptr(round(f.Offset.HighSec, 1))
+	}
+	if !f.Earliest.IsZero() {
+		p.CorrectedUTCEarliest, p.CorrectedUTCLatest = stamp(f.Earliest), stamp(f.Latest)
+	}
+	for _, r := range f.Rejected {
+		p.Rejected = append(p.Rejected, report.Alternative{Verdict: string(r.Verdict), Reason: r.Reason})
+	}
+	if f.ShadowFix != nil {
+		p.ShadowFix = &report.Fix{Lat: round(f.ShadowFix.LatDeg, 5), Lon: round(f.ShadowFix.LonDeg, 5), RadiusKm: round(f.ShadowFix.RadiusKm, 2)}
+	}
+	for _, d := range f.Measured {
+		p.Measured = append(p.Measured, report.Measured{
+			Object: d.Object, Azimuth: round(d.AzimuthDeg, 3), AzimuthSD: round(d.AzimuthSDDeg, 3),
+			Altitude: round(d.AltitudeDeg, 3), AltitudeSD: round(d.AltitudeSDDeg, 3), HasAltitude: d.HasAltitude,
+		})
+	}
+	if p.Error == "" && it.Entry.Err != nil {
+		p.Error = it.Entry.Err.Error()
+	}
+	return p
+}
+
+func camera(c solarcheck.Camera, byPath map[string]*solarcheck.Finding) report.Camera {
+	rc := report.Camera{ID: c.ID, Photos: len(c.Photos), Outliers: []string{}, Resets: []string{}, OrderBreaks: []string{}, Points: []report.ClockPoint{}, Note: c.Note}
+	for _, ob := range c.Model.OrderBreaks {
+		rc.OrderBreaks = append(rc.OrderBreaks, fmt.Sprintf("%s (file %d) claims a time after %s (file %d)", ob.Later, ob.LaterNumber, ob.Earlier, ob.EarlierNumber))
+	}
+	for _, r := range c.Model.Resets {
+		rc.Resets = append(rc.Resets, r.After)
+	}
+	if !c.Fitted || len(c.Model.Segments) == 0 {
+		return rc
+	}
+	// The segment with the most evidence stands for the camera; resets
+	// are listed so a reader knows there is more than one.
+	seg := c.Model.Segments[0]
+	for _, s := range c.Model.Segments[1:] {
+		if s.Points > seg.Points {
+			seg = s
+		}
+	}
+	rc.OffsetS = ptr(round(seg.OffsetSec, 1))
+	rc.OffsetSDs = ptr(round(seg.OffsetHalf95Sec/1.96, 1))
+	rc.DriftSPerDay = ptr(round(seg.DriftSecPerDay, 3))
+	rc.DriftPPM = ptr(round(seg.DriftPPM(), 2))
+	rc.OffsetAtUTC = stamp(seg.T0)
+	if len(c.Model.Segments) > 1 {
+		rc.Note = fmt.Sprintf("The clock was reset %d time(s); the figures are for the segment with the most evidence (%d photos).", len(c.Model.Segments)-1, seg.Points)
+	}
+	for _, mp := range c.Model.Photos {
+		f := byPath[mp.Key]
+		if mp.Outlier {
+			rc.Outliers = append(rc.Outliers, mp.Key)
+		}
+		if f == nil || f.Offset == nil || !c.InFit[mp.Key] {
+			continue // the chart shows the evidence the line was fitted to
+		}
+		rc.Points = append(rc.Points, report.ClockPoint{
+			Path: mp.Key, ClaimedUTC: stamp(f.Claimed),
+			OffsetS: round(f.Offset.Sec, 1), LowS: round(f.Offset.LowSec, 1), HighS: round(f.Offset.HighSec, 1),
+			Outlier: mp.Outlier,
+		})
+	}
+	return rc
+}
+
+// wallText formats a wall time as ISO 8601 local time, with the
+// sub-seconds the camera wrote (trailing zeros dropped) and the offset when
+// one was tagged.
+func wallText(w zone.Wall) string {
+	t := time.Date(w.Year, w.Month, w.Day, w.Hour, w.Minute, w.Second, w.Nanosecond, time.UTC)
+	s := t.Format("2006-01-02T15:04:05.999999999")
+	if w.HasOffset {
+		s += time.Date(2000, 1, 1, 0, 0, 0, 0, time.FixedZone("", w.OffsetSec)).Format("-07:00")
+	}
+	return s
+}
+
+func sunAt(s solarcheck.SunSample) report.SunAt {
+	return report.SunAt{Time: stamp(s.Time), Azimuth: round(s.AzimuthDeg, 3), Altitude: round(s.AltitudeDeg, 3)}
+}
+
+// stamp formats t as RFC 3339 UTC with the sub-seconds it has; "" for zero.
+func stamp(t time.Time) string {
+	if t.IsZero() {
+		return ""
+	}
+	return t.UTC().Format(time.RFC3339Nano)
+}
+
+// round keeps d decimals: the report states figures to a precision that
+// means something, and stable rounding keeps reruns byte-identical.
+func round(v float64, d int) float64 {
+	p := math.Pow(10, float64(d))
+	return math.Round(v*p) / p
+}
+
+func ptr[T any](v T) *T { return &v }
+
+func nonNil(s []string) []string {
+	if s == nil {
+		return []string{}
+	}
+	return s
+}

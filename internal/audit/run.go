@@ -1,0 +1,162 @@
+// Package audit runs the main job end to end: it walks the evidence folders,
+// reads every file (exifread), examines every photo (solarcheck), fits every
+// camera's clock, and builds the report document (report.Audit). It writes
+// nothing but the thumbnails it is asked for, and those only into the folder
+// it is given; the command (cmd/gnomon) decides where the reports go.
+package audit
+
+import (
+	"context"
+	"fmt"
+	"runtime"
+	"sync"
+
+	"github.com/gnomon-forensics/gnomon/exifread"
+	"github.com/gnomon-forensics/gnomon/solarcheck"
+	"github.com/gnomon-forensics/gnomon/solarcheck/sheet"
+)
+
+// Options configure a run.
+type Options struct {
+	// Workers is how many files are read and examined at once; 0 means one
+	// per core.
+	Workers int
+	// Examiner runs the checks; it holds the zone finder.
+	Examiner *solarcheck.Examiner
+	// Sheet is the examiner's measurement sheet, nil for none.
+	Sheet *sheet.Sheet
+	// Read bounds the metadata reader.
+	Read exifread.Options
+	// Thumbs, when set, is called by the worker that read entry i, with its
+	// record, so the caller can write a thumbnail while the file's preview is
+	// at hand. It returns the thumbnail's path relative to the report folder
+	// ("" for none). It must be safe for concurrent use.
+	Thumbs func(i int, e Entry, rec *exifread.Record) string
+	// Progress is called once per finished entry (from any goroutine).
+	Progress func()
+}
+
+// Item is everything known about one entry after the run.
+type Item struct {
+	Entry     Entry
+	Record    exifread.Record
+	Finding   solarcheck.Finding
+	Thumbnail string
+}
+
+// Result is a finished run.
+type Result struct {
+	Items   []Item // in the order of the entries (sorted by input and path)
+	Cameras []solarcheck.Camera
+	// SheetProblems are the sheet's errors as "file:line:column: reason",
+	// including rows naming no photo of the audit.
+	SheetProblems []string
+}
+
+// Run reads and examines every entry. It stops early, returning ctx.Err(),
+// when ctx is cancelled; a run that returns an error has no usable result.
+func Run(ctx context.Context, entries []Entry, o Options) (*Result, error) {
+	rows, problems := resolveSheet(o.Sheet, entries)
+	items := make([]Item, len(entries))
+	workers := o.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	next := make(chan int)
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				items[i] = o.process(i, entries[i], rows[entries[i].key()])
+				if o.Progress != nil {
+					o.Progress()
+				}
+			}
+		}()
+	}
+feed:
+	for i := range entries {
+		select {
+		case next <- i:
+		case <-ctx.Done():
+			break feed
+		}
+	}
+	close(next)
+	wg.Wait()
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+
+	findings := make([]solarcheck.Finding, len(items))
+	for i := range items {
+		findings[i] = items[i].Finding
+	}
+	cams := o.Examiner.ModelCameras(findings)
+	for i := range items {
+		items[i].Finding = findings[i]
+	}
+	return &Result{Items: items, Cameras: cams, SheetProblems: problems}, nil
+}
+
+// key identifies an entry for the sheet: its path relative to its input.
+func (e Entry) key() string { return e.Rel }
+
+// process reads and examines one entry.
+func (o Options) process(i int, e Entry, rows []sheet.Row) Item {
+	it := Item{Entry: e}
+	switch {
+	case e.Err != nil:
+		it.Record = exifread.Record{Path: e.Abs, Container: exifread.ContainerUnknown, Err: e.Err, Error: exifread.Message(e.Err.Error())}
+		it.Finding = solarcheck.Finding{Path: e.Rel, Verdict: solarcheck.Unreadable, Explanation: "Not read: " + e.Err.Error() + "."}
+		return it
+	}
+	rec := exifread.ReadFile(e.Abs, o.Read)
+	if e.SidecarOf != "" {
+		it.Record = rec
+		it.Finding = solarcheck.Finding{Path: e.Rel, Verdict: solarcheck.Unreadable,
+			Explanation: fmt.Sprintf("XMP sidecar of %s: not a photo; its contents are read with that photo.", e.SidecarOf)}
+		return it
+	}
+	if o.Thumbs != nil && rec.Err == nil {
+		it.Thumbnail = o.Thumbs(i, e, &rec)
+	}
+	rec.Thumbnail = nil // the preview has served; do not keep it for the whole batch
+	it.Record = rec
+	it.Finding = o.Examiner.Examine(solarcheck.Photo{Path: e.Rel, Record: rec, Rows: rows})
+	return it
+}
+
+// resolveSheet matches the sheet's rows to the entries.
+func resolveSheet(s *sheet.Sheet, entries []Entry) (map[string][]sheet.Row, []string) {
+	if s == nil {
+		return nil, nil
+	}
+	var problems []string
+	for _, p := range s.Problems {
+		problems = append(problems, p.Error())
+	}
+	paths := make([]string, 0, len(entries))
+	for _, e := range entries {
+		if e.Err == nil && e.SidecarOf == "" {
+			paths = append(paths, e.key())
+		}
+	}
+	rows, err := s.Resolve(paths)
+	if err != nil {
+		for _, e := range unwrapAll(err) {
+			problems = append(problems, e.Error())
+		}
+	}
+	return rows, problems
+}
+
+// unwrapAll splits an errors.Join result into its parts.
+func unwrapAll(err error) []error {
+	if j, ok := err.(interface{ Unwrap() []error }); ok {
+		return j.Unwrap()
+	}
+	return []error{err}
+}

@@ -1,0 +1,209 @@
+package audit
+
+import (
+	"errors"
+	"fmt"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+)
+
+// Entry is one item found under an input: a file to read, or something
+// that could not be read, with why. Every item the walk meets becomes an
+// entry, so that the report accounts for the whole evidence folder.
+type Entry struct {
+	Root string // the input as given on the command line
+	Abs  string // absolute path of the item
+	Rel  string // slash path relative to Root; the base name for a file input
+	// Err says why the item is not read as a photo (not a regular file,
+	// permission denied, a link out of the tree); nil for a readable file.
+	Err error
+	// SidecarOf names the photo (Rel) whose .xmp sidecar this is, "" otherwise.
+	SidecarOf string
+}
+
+// ErrNotRegular marks an item that is not a regular file (a FIFO, a device,
+// a socket): reading it could block or mean nothing.
+var ErrNotRegular = errors.New("not a regular file")
+
+// ErrLinkOutside marks a symbolic link whose target lies outside the audited
+// folder (or cannot be resolved): it is not followed.
+var ErrLinkOutside = errors.New("symbolic link leading outside the audited folder; not followed")
+
+// ErrLinkDir marks a symbolic link to a folder: folders are reached through
+// their real paths only, so that no loop can form.
+var ErrLinkDir = errors.New("symbolic link to a folder; not followed (its contents are audited through their real path)")
+
+// Walk lists every item under the inputs, sorted by input then by relative
+// path. Symbolic links to files inside the same input are read; links to
+// folders and links leaving the input are listed with a reason and not
+// followed, so the walk cannot loop. It fails only when an input itself
+// cannot be examined.
+func Walk(inputs []string) ([]Entry, error) {
+	var all []Entry
+	for _, in := range inputs {
+		es, err := walkOne(in)
+		if err != nil {
+			return nil, err
+		}
+		sort.Slice(es, func(i, j int) bool { return es[i].Rel < es[j].Rel })
+		all = append(all, es...)
+	}
+	markSidecars(all)
+	return all, nil
+}
+
+func walkOne(in string) ([]Entry, error) {
+	abs, err := filepath.Abs(in)
+	if err != nil {
+		return nil, fmt.Errorf("input %q: %w", in, err)
+	}
+	st, err := os.Stat(abs)
+	if err != nil {
+		return nil, fmt.Errorf("input %q: %w", in, err)
+	}
+	if !st.IsDir() {
+		e := Entry{Root: in, Abs: abs, Rel: filepath.Base(abs)}
+		if !st.Mode().IsRegular() {
+			e.Err = ErrNotRegular
+		}
+		return []Entry{e}, nil
+	}
+	real, err := filepath.EvalSymlinks(abs)
+	if err != nil {
+		return nil, fmt.Errorf("input %q: %w", in, err)
+	}
+	var es []Entry
+	err = filepath.WalkDir(abs, func(p string, d fs.DirEntry, werr error) error {
+		rel, rerr := filepath.Rel(abs, p)
+		if rerr != nil {
+			return rerr
+		}
+		e := Entry{Root: in, Abs: p, Rel: filepath.ToSlash(rel)}
+		if werr != nil {
+			if p == abs {
+				return werr
+			}
+			e.Err = werr
+			es = append(es, e)
+			if d != nil && d.IsDir() {
+				return fs.SkipDir
+			}
+			return nil
+		}
+		if d.IsDir() {
+			return nil
+		}
+		switch t := d.Type(); {
+		case t&fs.ModeSymlink != 0:
+			e.Err = checkLink(p, real)
+		case !t.IsRegular():
+			e.Err = ErrNotRegular
+		}
+		es = append(es, e)
+		return nil
+	})
+	if err != nil {
+		return nil, fmt.Errorf("input %q: %w", in, err)
+	}
+	return es, nil
+}
+
+// checkLink decides whether the link at p may be read: only when it resolves
+// to a regular file inside root (a real path).
+func checkLink(p, root string) error {
+	target, err := filepath.EvalSymlinks(p)
+	if err != nil {
+		return fmt.Errorf("%w: %v", ErrLinkOutside, err)
+	}
+	if !within(target, root) {
+		return ErrLinkOutside
+	}
+	st, err := os.Stat(target)
+	switch {
+	case err != nil:
+		return err
+	case st.IsDir():
+		return ErrLinkDir
+	case !st.Mode().IsRegular():
+		return ErrNotRegular
+	}
+	return nil
+}
+
+// within reports whether path p lies inside (or is) dir; both must be clean
+// absolute paths.
+func within(p, dir string) bool {
+	if p == dir {
+		return true
+	}
+	return strings.HasPrefix(p, strings.TrimSuffix(dir, string(filepath.Separator))+string(filepath.Separator))
+}
+
+// Inside reports whether path p (resolved through symbolic links as far as
+// it exists) lies inside any of the folders dirs. The audit uses it to
+// refuse writing a report into the evidence.
+func Inside(p string, dirs []string) (string, bool) {
+	rp := resolve(p)
+	for _, d := range dirs {
+		st, err := os.Stat(d)
+		if err != nil || !st.IsDir() {
+			continue
+		}
+		if within(rp, resolve(d)) {
+			return d, true
+		}
+	}
+	return "", false
+}
+
+// resolve returns p made absolute with every existing ancestor's symbolic
+// links resolved, so that a path that does not exist yet can still be
+// compared with real folders.
+func resolve(p string) string {
+	abs, err := filepath.Abs(p)
+	if err != nil {
+		return p
+	}
+	var tail []string
+	cur := abs
+	for {
+		if r, err := filepath.EvalSymlinks(cur); err == nil {
+			return filepath.Join(append([]string{r}, tail...)...)
+		}
+		parent := filepath.Dir(cur)
+		if parent == cur {
+			return abs
+		}
+		tail = append([]string{filepath.Base(cur)}, tail...)
+		cur = parent
+	}
+}
+
+// markSidecars notes .xmp files that sit beside a photo of the same name
+// (IMG_1.jpg.xmp or IMG_1.xmp): exifread reads them with that photo.
+func markSidecars(es []Entry) {
+	byRel := map[string]bool{}    // root + rel of every item
+	byStem := map[string]string{} // root + rel without extension → rel, for non-.xmp items
+	for _, e := range es {
+		byRel[e.Root+"\x00"+e.Rel] = true
+		if !isXMP(e.Rel) {
+			byStem[e.Root+"\x00"+strings.TrimSuffix(e.Rel, filepath.Ext(e.Rel))] = e.Rel
+		}
+	}
+	for i, e := range es {
+		if !isXMP(e.Rel) {
+			continue
+		}
+		stem := strings.TrimSuffix(e.Rel, filepath.Ext(e.Rel))
+		if byRel[e.Root+"\x00"+stem] {
+			es[i].SidecarOf = stem
+		} else if rel, ok := byStem[e.Root+"\x00"+stem]; ok {
+			es[i].SidecarOf = rel
+		}
+	}
+}
+
+func isXMP(name string) bool { return strings.EqualFold(filepath.Ext(name), ".xmp") }

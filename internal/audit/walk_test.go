@@ -1,0 +1,126 @@
+package audit
+
+import (
+	"errors"
+	"os"
+	"path/filepath"
+	"syscall"
+	"testing"
+)
+
+// TestWalk builds a folder with the awkward items evidence folders hold and
+// checks that every one is listed, with the right reason, and that the walk
+// ends (symbolic-link loops cannot trap it).
+func TestWalk(t *testing.T) {
+	root := filepath.Join(t.TempDir(), "ev")
+	outside := t.TempDir()
+	must := func(err error) {
+		t.Helper()
+		if err != nil {
+			t.Fatal(err)
+		}
+	}
+	must(os.MkdirAll(filepath.Join(root, "a", "b"), 0o755))
+	must(os.WriteFile(filepath.Join(root, "a", "IMG_1.jpg"), []byte("x"), 0o644))
+	must(os.WriteFile(filepath.Join(root, "a", "IMG_1.xmp"), []byte("x"), 0o644))
+	must(os.WriteFile(filepath.Join(root, "a", "b", "IMG_2.jpg"), []byte("x"), 0o644))
+	must(os.WriteFile(filepath.Join(root, "a", "b", "IMG_2.jpg.xmp"), []byte("x"), 0o644))
+	must(os.WriteFile(filepath.Join(outside, "secret.txt"), []byte("x"), 0o644))
+	must(os.Symlink(filepath.Join(root, "a"), filepath.Join(root, "a", "b", "loop")))         // folder link: a loop
+	must(os.Symlink(filepath.Join(outside, "secret.txt"), filepath.Join(root, "escape.txt"))) // leaves the tree
+	must(os.Symlink(filepath.Join(root, "a", "IMG_1.jpg"), filepath.Join(root, "alias.jpg"))) // inside: read
+	must(os.Symlink(filepath.Join(root, "nowhere"), filepath.Join(root, "dangling.jpg")))
+	must(syscall.Mkfifo(filepath.Join(root, "pipe"), 0o644))
+
+	es, err := Walk([]string{root})
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := map[string]Entry{}
+	for _, e := range es {
+		got[e.Rel] = e
+	}
+	cases := []struct {
+		rel       string
+		want      error // nil: readable
+		sidecarOf string
+	}{
+		{"a/IMG_1.jpg", nil, ""},
+		{"a/IMG_1.xmp", nil, "a/IMG_1.jpg"},
+		{"a/b/IMG_2.jpg", nil, ""},
+		{"a/b/IMG_2.jpg.xmp", nil, "a/b/IMG_2.jpg"},
+		{"a/b/loop", ErrLinkDir, ""},
+		{"escape.txt", ErrLinkOutside, ""},
+		{"alias.jpg", nil, ""},
+		{"dangling.jpg", ErrLinkOutside, ""},
+		{"pipe", ErrNotRegular, ""},
+	}
+	for _, c := range cases {
+		e, ok := got[c.rel]
+		if !ok {
+			t.Errorf("%s: not listed", c.rel)
+			continue
+		}
+		if (c.want == nil) != (e.Err == nil) || (c.want != nil && !errors.Is(e.Err, c.want)) {
+			t.Errorf("%s: error %v, want %v", c.rel, e.Err, c.want)
+		}
+		if e.SidecarOf != c.sidecarOf {
+			t.Errorf("%s: sidecar of %q, want %q", c.rel, e.SidecarOf, c.sidecarOf)
+		}
+	}
+	if len(es) != len(cases) {
+		t.Errorf("%d entries, want %d: %+v", len(es), len(cases), es)
+	}
+	for i := 1; i < len(es); i++ {
+		if es[i-1].Rel >= es[i].Rel {
+			t.Errorf("entries not sorted: %q before %q", es[i-1].Rel, es[i].Rel)
+		}
+	}
+}
+
+func TestWalkUnreadableFolder(t *testing.T) {
+	if os.Geteuid() == 0 {
+		t.Skip("running as root: permission bits do not stop reading")
+	}
+	root := t.TempDir()
+	locked := filepath.Join(root, "locked")
+	if err := os.Mkdir(locked, 0o000); err != nil {
+		t.Fatal(err)
+	}
+	defer os.Chmod(locked, 0o755)
+	es, err := Walk([]string{root})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(es) != 1 || es[0].Err == nil {
+		t.Fatalf("entries %+v: want one entry with a permission error", es)
+	}
+}
+
+func TestInside(t *testing.T) {
+	root := t.TempDir()
+	ev := filepath.Join(root, "ev")
+	if err := os.MkdirAll(filepath.Join(ev, "sub"), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	link := filepath.Join(root, "link")
+	if err := os.Symlink(ev, link); err != nil {
+		t.Fatal(err)
+	}
+	cases := []struct {
+		out  string
+		want bool
+	}{
+		{filepath.Join(ev, "report"), true},
+		{filepath.Join(ev, "sub", "new", "report"), true},
+		{filepath.Join(link, "report"), true}, // through a link to the evidence
+		{ev, true},
+		{filepath.Join(root, "ev-report"), false}, // a sibling sharing the prefix
+		{filepath.Join(root, "report"), false},
+	}
+	for _, c := range cases {
+		if _, got := Inside(c.out, []string{ev}); got != c.want {
+			t.Errorf("Inside(%q) = %v, want %v", c.out, got, c.want)
+		}
+	}
+}
