@@ -44,6 +44,9 @@ func commands() []command {
 		{"where", "place on Earth consistent with a measured sun direction at a time", runWhere},
 		{"meta", "print the normalised evidence read from photos", runMeta},
 		{"sheet", "write a measurement-sheet template for the photos in folders", runSheet},
+		{"audit", "check every photo under folders and write the reports", runAudit},
+		{"demo", "build an invented case, audit it and show where the report is", runDemo},
+		{"selftest", "run the built-in published reference checks", runSelftest},
 		{"version", "print the version", runVersion},
 	}
 }

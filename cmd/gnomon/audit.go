@@ -1,0 +1,354 @@
+package main
+
+import (
+	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"os/signal"
+	"path/filepath"
+	"runtime"
+	"sort"
+	"strconv"
+	"strings"
+	"syscall"
+	"time"
+
+	"github.com/gnomon-forensics/gnomon/exifread"
+	"github.com/gnomon-forensics/gnomon/internal/audit"
+	"github.com/gnomon-forensics/gnomon/internal/selftest"
+	"github.com/gnomon-forensics/gnomon/report"
+	"github.com/gnomon-forensics/gnomon/solarcheck"
+	"github.com/gnomon-forensics/gnomon/solarcheck/sheet"
+	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
+)
+
+// allFormats are the report files an audit can write, in writing order.
+var allFormats = []string{"json", "csv", "geojson", "html"}
+
+// auditConfig is an audit as the flags describe it.
+type auditConfig struct {
+	inputs     []string
+	sheetPath  string
+	out        string
+	formats    map[string]bool
+	workers    int
+	quiet      bool
+	strict     bool
+	thumbnails bool
+	args       []string // the command line, for the report
+}
+
+func runAudit(e env, args []string) int {
+	fs := newFlagSet(e, "audit", "gnomon audit DIR|FILE... [--shadows SHEET.csv] [--out REPORTDIR] [--formats html,csv,json,geojson] [-j N] [--quiet] [--strict]",
+		"Read every photo under the inputs, check each claimed capture time against the sun and the other\n"+
+			"witnesses, fit each camera's clock, and write the reports. Evidence is opened read-only; the report\n"+
+			"folder may not lie inside an input. Exit 0 when the run completed, 1 when it failed (and, with\n"+
+			"--strict, when any verdict is other than consistent or unverified), 2 for bad usage.")
+	cfg := auditConfig{args: append([]string{"gnomon", "audit"}, args...)}
+	fs.StringVar(&cfg.sheetPath, "shadows", "", "the examiner's measurement sheet (CSV; see `gnomon sheet`)")
+	fs.StringVar(&cfg.out, "out", "gnomon-report", "report folder to create (must not exist, or be empty)")
+	formats := fs.String("formats", strings.Join([]string{"html", "csv", "json", "geojson"}, ","), "report formats to write, comma-separated")
+	fs.IntVar(&cfg.workers, "j", runtime.NumCPU(), "files read at once")
+	fs.BoolVar(&cfg.quiet, "quiet", false, "no progress or summary on stderr")
+	fs.BoolVar(&cfg.strict, "strict", false, "exit 1 when any verdict is other than consistent or unverified")
+	fs.BoolVar(&cfg.thumbnails, "thumbnails", true, "write thumbnails for the HTML report")
+	if code, done := parseFlags(fs, interleave(args)); done {
+		return code
+	}
+	cfg.inputs = fs.Args()
+	if len(cfg.inputs) == 0 {
+		return usageErr(fs, "no input folder or file given")
+	}
+	if cfg.workers < 1 {
+		return usageErr(fs, "-j must be at least 1, got %d", cfg.workers)
+	}
+	var err error
+	if cfg.formats, err = parseFormats(*formats); err != nil {
+		return usageErr(fs, "%v", err)
+	}
+	if err := checkOut(cfg.out, cfg.inputs); err != nil {
+		return usageErr(fs, "%v", err)
+	}
+
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
+	sum, err := doAudit(ctx, e, cfg)
+	if err != nil {
+		if errors.Is(err, context.Canceled) {
+			fmt.Fprintln(e.stderr, "gnomon audit: interrupted; no report was written (partial files removed)")
+			return exitFailure
+		}
+		return fail(e.stderr, "audit", err)
+	}
+	if !cfg.quiet {
+		sum.print(e.stderr)
+	}
+	if cfg.strict && sum.flagged > 0 {
+		return exitFailure
+	}
+	return exitOK
+}
+
+// interleave lets flags follow the inputs ("gnomon audit DIR --out R"), as
+// examiners type them: the flag package stops at the first non-flag.
+func interleave(args []string) []string {
+	var flags, rest []string
+	for i := 0; i < len(args); i++ {
+		a := args[i]
+		if a == "--" {
+			rest = append(rest, args[i+1:]...)
+			break
+		}
+		if strings.HasPrefix(a, "-") && a != "-" {
+			flags = append(flags, a)
+			if !strings.Contains(a, "=") && i+1 < len(args) && takesValue(a) {
+				flags = append(flags, args[i+1])
+				i++
+			}
+			continue
+		}
+		rest = append(rest, a)
+	}
+	return append(append(flags, "--"), rest...)
+}
+
+// takesValue reports whether the audit flag a is followed by a value.
+func takesValue(a string) bool {
+	switch strings.TrimLeft(a, "-") {
+	case "shadows", "out", "formats", "j":
+		return true
+	}
+	return false
+}
+
+func parseFormats(s string) (map[string]bool, error) {
+	m := map[string]bool{}
+	for _, f := range strings.Split(s, ",") {
+		f = strings.ToLower(strings.TrimSpace(f))
+		if f == "" {
+			continue
+		}
+		ok := false
+		for _, a := range allFormats {
+			ok = ok || a == f
+		}
+		if !ok {
+			return nil, fmt.Errorf("unknown report format %q (want html, csv, json or geojson)", f)
+		}
+		m[f] = true
+	}
+	if len(m) == 0 {
+		return nil, errors.New("--formats names no format")
+	}
+	return m, nil
+}
+
+// checkOut refuses a report folder inside an input folder, or one that
+// already holds files (a report must never mix with an earlier one).
+func checkOut(out string, inputs []string) error {
+	if in, bad := audit.Inside(out, inputs); bad {
+		return fmt.Errorf("report folder %q lies inside input %q: reports are never written into evidence", out, in)
+	}
+	des, err := os.ReadDir(out)
+	switch {
+	case errors.Is(err, os.ErrNotExist):
+		return nil
+	case err != nil:
+		return fmt.Errorf("report folder %q: %w", out, err)
+	case len(des) > 0:
+		return fmt.Errorf("report folder %q already exists and is not empty", out)
+	}
+	return nil
+}
+
+// summary is what the audit tells the examiner at the end.
+type summary struct {
+	files, cameras, unreadable, flagged int
+	byVerdict                           map[string]int
+	out                                 string
+	written                             []string
+	sheetProblems                       int
+	selfTestOK                          bool
+}
+
+func (s summary) print(w io.Writer) {
+	fmt.Fprintf(w, "\naudited %d files; %d cameras modelled; %d unreadable\n", s.files, s.cameras, s.unreadable)
+	keys := make([]string, 0, len(s.byVerdict))
+	for k := range s.byVerdict {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	for _, k := range keys {
+		fmt.Fprintf(w, "  %-16s %d\n", k, s.byVerdict[k])
+	}
+	if s.sheetProblems > 0 {
+		fmt.Fprintf(w, "the measurement sheet had %d problems (listed in the report)\n", s.sheetProblems)
+	}
+	if !s.selfTestOK {
+		fmt.Fprintln(w, "WARNING: the built-in self-test failed; see the report header")
+	}
+	fmt.Fprintf(w, "reports in %s: %s\n", s.out, strings.Join(s.written, ", "))
+	fmt.Fprintln(w, "Findings are investigative aids, to be confirmed by a qualified examiner under local rules of evidence.")
+}
+
+// doAudit runs the audit described by cfg and writes its reports. On any
+// error (including cancellation) it removes what it wrote.
+func doAudit(ctx context.Context, e env, cfg auditConfig) (sum summary, err error) {
+	started := runClock(e)
+	createdOut := false
+	if _, statErr := os.Stat(cfg.out); errors.Is(statErr, os.ErrNotExist) {
+		createdOut = true
+	}
+	if err := os.MkdirAll(cfg.out, 0o755); err != nil {
+		return sum, fmt.Errorf("report folder: %w", err)
+	}
+	thumbDir := filepath.Join(cfg.out, "thumbnails")
+	defer func() {
+		if err != nil {
+			os.RemoveAll(thumbDir)
+			if createdOut {
+				os.Remove(cfg.out) // only if empty
+			}
+		}
+	}()
+
+	entries, err := audit.Walk(cfg.inputs)
+	if err != nil {
+		return sum, err
+	}
+	var sh *sheet.Sheet
+	var sheetSHA string
+	if cfg.sheetPath != "" {
+		if sh, sheetSHA, err = loadSheet(cfg.sheetPath); err != nil {
+			return sum, err
+		}
+	}
+
+	zones := zone.NewFinder(nil)
+	st := selftest.Run(zones)
+	x := solarcheck.NewExaminer(solarcheck.Options{Zones: zones})
+
+	opt := audit.Options{Workers: cfg.workers, Examiner: x, Sheet: sh}
+	if cfg.thumbnails && cfg.formats["html"] {
+		if err := os.MkdirAll(thumbDir, 0o755); err != nil {
+			return sum, fmt.Errorf("thumbnails: %w", err)
+		}
+		opt.Thumbs = thumbWriter(thumbDir)
+	}
+	prog := newProgress(e.stderr, len(entries), "reading", cfg.quiet)
+	opt.Progress = prog.step
+	res, err := audit.Run(ctx, entries, opt)
+	prog.finish()
+	if err != nil {
+		return sum, err
+	}
+
+	zmap, zerr := zones.ZoneMapVersion()
+	if zerr != nil {
+		zmap = "unavailable: " + zerr.Error()
+	}
+	h := audit.Header{
+		Tool:        report.Tool{Name: "gnomon", Version: version, GoVersion: runtime.Version()},
+		Started:     started,
+		Finished:    runClock(e),
+		CommandLine: cfg.args,
+		Inputs:      cfg.inputs,
+		Sheet:       cfg.sheetPath,
+		SheetSHA256: sheetSHA,
+		DeltaTModel: "Espenak & Meeus (2006) polynomials",
+		TZData:      zones.DB().Version(),
+		ZoneMap:     zmap,
+		Magnetic:    "WMM2025 (NOAA NCEI and BGS), valid 2025.0-2030.0",
+		SelfTest:    selfTestReport(st),
+	}
+	doc := audit.Document(res, h, x, cfg.formats["html"])
+	if ctx.Err() != nil {
+		return sum, ctx.Err()
+	}
+	for _, f := range allFormats {
+		if !cfg.formats[f] {
+			continue
+		}
+		name := "report." + f
+		if err := report.WriteFileAtomic(filepath.Join(cfg.out, name), writerFor(f, doc)); err != nil {
+			return sum, fmt.Errorf("writing %s: %w", name, err)
+		}
+		sum.written = append(sum.written, name)
+		if ctx.Err() != nil {
+			for _, w := range sum.written {
+				os.Remove(filepath.Join(cfg.out, w))
+			}
+			return sum, ctx.Err()
+		}
+	}
+
+	sum.files, sum.cameras, sum.byVerdict, sum.out = len(doc.Photos), doc.Run.Counts.Cameras, doc.Run.Counts.ByVerdict, cfg.out
+	sum.unreadable = sum.byVerdict[string(solarcheck.Unreadable)]
+	sum.sheetProblems = len(res.SheetProblems)
+	sum.selfTestOK = st.Passed
+	for v, n := range sum.byVerdict {
+		if v != string(solarcheck.Consistent) && v != string(solarcheck.Unverified) {
+			sum.flagged += n
+		}
+	}
+	return sum, nil
+}
+
+func writerFor(format string, doc *report.Audit) func(io.Writer) error {
+	switch format {
+	case "json":
+		return func(w io.Writer) error { return report.WriteJSON(w, doc) }
+	case "csv":
+		return func(w io.Writer) error { return report.WriteCSV(w, doc) }
+	case "geojson":
+		return func(w io.Writer) error { return report.WriteGeoJSON(w, doc) }
+	}
+	return func(w io.Writer) error { return report.WriteHTML(w, doc) }
+}
+
+// loadSheet parses the measurement sheet, read-only, and hashes it.
+func loadSheet(p string) (*sheet.Sheet, string, error) {
+	b, err := os.ReadFile(p)
+	if err != nil {
+		return nil, "", fmt.Errorf("measurement sheet: %w", err)
+	}
+	sum := sha256.Sum256(b)
+	s, _ := sheet.Parse(strings.NewReader(string(b)), p) // problems are kept in s.Problems
+	return s, hex.EncodeToString(sum[:]), nil
+}
+
+// thumbWriter writes entry i's thumbnail as thumbnails/NNNNNN.jpg; the
+// number is the entry's place in the sorted walk, so reruns name them alike.
+func thumbWriter(dir string) func(int, audit.Entry, *exifread.Record) string {
+	return func(i int, en audit.Entry, rec *exifread.Record) string {
+		name := fmt.Sprintf("%06d.jpg", i)
+		open := func() (io.ReadCloser, error) { return os.Open(en.Abs) }
+		if err := report.WriteThumbnail(filepath.Join(dir, name), rec.Thumbnail, open, rec.Orientation); err != nil {
+			return ""
+		}
+		return "thumbnails/" + name
+	}
+}
+
+func selfTestReport(r selftest.Result) report.SelfTest {
+	st := report.SelfTest{Passed: r.Passed}
+	for _, c := range r.Checks {
+		st.Checks = append(st.Checks, report.SelfCheck{Name: c.Name, Source: c.Source, Passed: c.Passed, Detail: c.Detail})
+	}
+	return st
+}
+
+// runClock is the wall clock for the report header: SOURCE_DATE_EPOCH
+// (seconds since 1970) pins it so that reruns are byte-identical.
+func runClock(e env) time.Time {
+	if s := e.getenv("SOURCE_DATE_EPOCH"); s != "" {
+		if n, err := strconv.ParseInt(s, 10, 64); err == nil {
+			return time.Unix(n, 0).UTC()
+		}
+	}
+	return time.Now().UTC().Truncate(time.Second)
+}

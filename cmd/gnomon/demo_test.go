@@ -1,0 +1,82 @@
+package main
+
+import (
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/gnomon-forensics/gnomon/internal/democase"
+)
+
+// TestDemoFindsEveryPlantedFault builds the invented demo case, audits it
+// as `gnomon audit` would, and checks every photo's verdict against the
+// case's answer key (which the case builder derives from the faults it
+// planted, not from the audit), and that the edited photo is the one its
+// camera flags.
+func TestDemoFindsEveryPlantedFault(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "demo")
+	c, err := democase.Build(dir, democase.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(t.TempDir(), "report")
+	code, _, stderr := runCmd(t, nil, "audit", c.PhotosDir, "--shadows", c.SheetPath, "--out", out, "--quiet", "--formats", "json")
+	if code != exitOK {
+		t.Fatalf("audit exit %d: %s", code, stderr)
+	}
+	b, err := os.ReadFile(filepath.Join(out, "report.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Run struct {
+			SheetErrors []string `json:"sheet_errors"`
+			SelfTest    struct {
+				Passed bool `json:"passed"`
+			} `json:"self_test"`
+		} `json:"run"`
+		Photos []struct {
+			Path        string `json:"path"`
+			Verdict     string `json:"verdict"`
+			Explanation string `json:"explanation"`
+		} `json:"photos"`
+		Cameras []struct {
+			Outliers []string `json:"outliers"`
+		} `json:"cameras"`
+	}
+	if err := json.Unmarshal(b, &doc); err != nil {
+		t.Fatal(err)
+	}
+	if len(doc.Run.SheetErrors) > 0 {
+		t.Errorf("the demo sheet has problems: %v", doc.Run.SheetErrors)
+	}
+	if !doc.Run.SelfTest.Passed {
+		t.Error("self-test failed")
+	}
+	got := map[string]string{}
+	for _, p := range doc.Photos {
+		got[p.Path] = p.Verdict + ": " + p.Explanation
+	}
+	if len(doc.Photos) != len(c.Photos) {
+		t.Errorf("%d report rows for %d photos", len(doc.Photos), len(c.Photos))
+	}
+	for _, p := range c.Photos {
+		v := got[p.Path]
+		if !strings.HasPrefix(v, p.Expected+":") {
+			t.Errorf("%s (planted: %s): got %q, want %s", p.Path, p.Fault, v, p.Expected)
+		}
+	}
+	outliers := map[string]bool{}
+	for _, cam := range doc.Cameras {
+		for _, o := range cam.Outliers {
+			outliers[o] = true
+		}
+	}
+	for _, p := range c.Photos {
+		if p.Outlier != outliers[p.Path] {
+			t.Errorf("%s: flagged as a possible edit: %v, planted: %v", p.Path, outliers[p.Path], p.Outlier)
+		}
+	}
+}

@@ -1,0 +1,58 @@
+package main
+
+import (
+	"github.com/gnomon-forensics/gnomon/exifread"
+	"github.com/gnomon-forensics/gnomon/internal/audit"
+	"github.com/gnomon-forensics/gnomon/solarcheck/sheet"
+)
+
+func runSheet(e env, args []string) int {
+	fs := newFlagSet(e, "sheet", "gnomon sheet DIR|FILE...",
+		"Write to stdout a measurement-sheet template (CSV, RFC 4180) with one row per photo under the\n"+
+			"inputs: the photo's path relative to its folder and a note with its claimed local time and GPS\n"+
+			"place. Fill in one row per measured object (copy a row for a second object); pass the sheet to\n"+
+			"`gnomon audit --shadows`. The columns are listed in the README.")
+	if code, done := parseFlags(fs, args); done {
+		return code
+	}
+	if fs.NArg() == 0 {
+		return usageErr(fs, "no input folder or file given")
+	}
+	entries, err := audit.Walk(fs.Args())
+	if err != nil {
+		return fail(e.stderr, "sheet", err)
+	}
+	var rows []sheet.TemplateRow
+	for _, en := range entries {
+		if en.Err != nil || en.SidecarOf != "" {
+			continue
+		}
+		rec := exifread.ReadFile(en.Abs, exifread.Options{SkipHash: true, SkipCrossCheck: true})
+		if rec.Container == exifread.ContainerUnknown {
+			continue
+		}
+		r := sheet.TemplateRow{Photo: en.Rel}
+		if w := firstWall(rec); w != nil {
+			r.ClaimedLocal = w.Raw
+		}
+		if p := rec.GPS.Position; p != nil && p.Valid {
+			r.Lat, r.Lon = p.LatDeg, p.LonDeg
+		}
+		rows = append(rows, r)
+	}
+	if err := sheet.WriteTemplate(e.stdout, rows); err != nil {
+		return fail(e.stderr, "sheet", err)
+	}
+	return exitOK
+}
+
+// firstWall is the capture time a sheet row names: DateTimeOriginal, else
+// DateTimeDigitized, else DateTime.
+func firstWall(rec exifread.Record) *exifread.WallTime {
+	for _, w := range []*exifread.WallTime{rec.DateTimeOriginal, rec.DateTimeDigitized, rec.DateTime} {
+		if w != nil {
+			return w
+		}
+	}
+	return nil
+}

@@ -1,0 +1,288 @@
+package main
+
+import (
+	"encoding/json"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"math"
+	"strings"
+	"time"
+
+	"github.com/gnomon-forensics/gnomon/solarcheck/invert"
+	"github.com/gnomon-forensics/gnomon/solarcheck/shadow"
+	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
+)
+
+const whenSynopsis = "gnomon when --lat D --lon D (--date YYYY-MM-DD | --from YYYY-MM-DD --to YYYY-MM-DD) (--azimuth A [--altitude H] | --altitude H | --shadow-bearing B --height H --shadow-length L [--slope S --slope-toward B]) [--azimuth-sd S] [--altitude-sd S] [--bearing-sd S] [--length-sd-pct P] [--zone IANA] [--json]"
+
+const whenAbout = `Find every time in a date range at which the sun, seen from a place, stood
+where a measurement puts it: a sun azimuth and/or altitude, or the shadow of a
+vertical object (height, shadow length along the ground and shadow bearing
+from base to tip, optionally on ground sloping down toward --slope-toward).
+
+Each match is a 95 % window: the times at which the sun's position (NREL
+SPA, refracted altitude, standard atmosphere, sea level) is consistent with
+the measurement, chi-square below 3.841 for one angle or 5.991 for two; "best"
+is the time of least misfit. It is a consistency set, not a probability for
+the time. Altitude alone usually fits twice a day; near noon the two windows
+can merge. Only times with the sun above the horizon match. Searching is done
+on a 1-minute grid and refined to about 1 s.
+
+Dates are UTC calendar days unless --zone names an IANA zone; at most three
+years. Uncertainties are 1-sigma: defaults 1° for azimuth and altitude, 2° for
+a shadow bearing and 5 % for a shadow length. The object's height is taken
+as exact: only the ratio height/length matters, so put the height's relative
+error into --length-sd-pct. Azimuths and bearings are degrees clockwise from
+true north (correct a compass for magnetic declination first).`
+
+// maxWhenDays is the longest range the command accepts (invert.MaxRange).
+const maxWhenDays = 3 * 366
+
+type whenMatchJSON struct {
+	Best     string  `json:"best"`
+	Earliest string  `json:"earliest"`
+	Latest   string  `json:"latest"`
+	Azimuth  float64 `json:"azimuth"`
+	Altitude float64 `json:"altitude"`
+	Misfit   float64 `json:"misfit"`
+}
+
+type whenJSON struct {
+	Matches []whenMatchJSON `json:"matches"`
+}
+
+func runWhen(e env, args []string) int {
+	fs := newFlagSet(e, "when", whenSynopsis, whenAbout)
+	lat := fs.Float64("lat", 0, "latitude, degrees north (-90..90)")
+	lon := fs.Float64("lon", 0, "longitude, degrees east (-180..180)")
+	date := fs.String("date", "", "one calendar day, YYYY-MM-DD")
+	from := fs.String("from", "", "first calendar day of a range, YYYY-MM-DD")
+	to := fs.String("to", "", "last calendar day of a range (inclusive), YYYY-MM-DD")
+	az := fs.Float64("azimuth", 0, "measured sun azimuth, degrees clockwise from true north")
+	alt := fs.Float64("altitude", 0, "measured apparent (refracted) sun altitude, degrees")
+	bearing := fs.Float64("shadow-bearing", 0, "shadow bearing from base to tip, degrees true")
+	height := fs.Float64("height", 0, "height of the vertical object (any unit, the same as --shadow-length)")
+	length := fs.Float64("shadow-length", 0, "shadow length from base to tip, measured along the ground")
+	slope := fs.Float64("slope", 0, "ground slope, degrees (0 = level)")
+	slopeToward := fs.Float64("slope-toward", 0, "bearing the ground slopes down toward, degrees true")
+	azSD := fs.Float64("azimuth-sd", 1, "1-sigma error of --azimuth, degrees")
+	altSD := fs.Float64("altitude-sd", 1, "1-sigma error of --altitude, degrees")
+	bearingSD := fs.Float64("bearing-sd", 2, "1-sigma error of --shadow-bearing, degrees")
+	lenSD := fs.Float64("length-sd-pct", 5, "1-sigma error of --shadow-length, per cent of the length")
+	zone := fs.String("zone", "", "IANA time zone of the dates (default: UTC dates)")
+	asJSON := fs.Bool("json", false, "print one JSON object")
+	if code, done := parseFlags(fs, args); done {
+		return code
+	}
+	if fs.NArg() > 0 {
+		return usageErr(fs, "unexpected argument %q", fs.Arg(0))
+	}
+	set := map[string]bool{}
+	fs.Visit(func(fl *flag.Flag) { set[fl.Name] = true })
+	for _, name := range []string{"lat", "lon"} {
+		if !set[name] {
+			return usageErr(fs, "--%s is required", name)
+		}
+	}
+	if !(*lat >= -90 && *lat <= 90) {
+		return usageErr(fs, "--lat %g is outside -90..90", *lat)
+	}
+	if !(*lon >= -180 && *lon <= 180) {
+		return usageErr(fs, "--lon %g is outside -180..180", *lon)
+	}
+	for _, sd := range []struct {
+		name string
+		v    float64
+	}{{"azimuth-sd", *azSD}, {"altitude-sd", *altSD}, {"bearing-sd", *bearingSD}, {"length-sd-pct", *lenSD}} {
+		if !(sd.v > 0) || math.IsInf(sd.v, 0) {
+			return usageErr(fs, "--%s %g must be a positive number", sd.name, sd.v)
+		}
+	}
+
+	// The dates.
+	loc := time.UTC
+	if *zone != "" {
+		l, err := time.LoadLocation(*zone)
+		if err != nil {
+			return usageErr(fs, "unknown --zone %q", *zone)
+		}
+		loc = l
+	}
+	var d0, d1 string
+	switch {
+	case set["date"] && (set["from"] || set["to"]):
+		return usageErr(fs, "give either --date or --from and --to, not both")
+	case set["date"]:
+		d0, d1 = *date, *date
+	case set["from"] && set["to"]:
+		d0, d1 = *from, *to
+	case set["from"] || set["to"]:
+		return usageErr(fs, "--from and --to go together")
+	default:
+		return usageErr(fs, "a date is required: --date, or --from and --to")
+	}
+	day0, err := time.ParseInLocation("2006-01-02", d0, loc)
+	if err != nil {
+		return usageErr(fs, "date %q is not a calendar date YYYY-MM-DD", d0)
+	}
+	day1, err := time.ParseInLocation("2006-01-02", d1, loc)
+	if err != nil {
+		return usageErr(fs, "date %q is not a calendar date YYYY-MM-DD", d1)
+	}
+	if day1.Before(day0) {
+		return usageErr(fs, "--from %s is after --to %s", d0, d1)
+	}
+	if y := day0.Year(); y < -2000 || day1.Year() > 6000 {
+		return usageErr(fs, "dates outside the years -2000..6000 that SPA covers")
+	}
+	start, end := invert.DayRange(day0.Year(), day0.Month(), day0.Day(), day1.Year(), day1.Month(), day1.Day(), loc)
+	if end.Sub(start) > maxWhenDays*24*time.Hour {
+		return usageErr(fs, "range %s to %s is longer than %d days (about three years)", d0, d1, maxWhenDays)
+	}
+
+	// The measurement.
+	shadowFlags := set["shadow-bearing"] || set["height"] || set["shadow-length"] || set["slope"] || set["slope-toward"]
+	var m invert.Measurement
+	var from0 string
+	switch {
+	case shadowFlags && (set["azimuth"] || set["altitude"]):
+		return usageErr(fs, "give either a shadow or --azimuth/--altitude, not both")
+	case shadowFlags:
+		for _, name := range []string{"shadow-bearing", "height", "shadow-length"} {
+			if !set[name] {
+				return usageErr(fs, "a shadow needs --shadow-bearing, --height and --shadow-length (--%s missing)", name)
+			}
+		}
+		if set["slope"] != set["slope-toward"] {
+			return usageErr(fs, "--slope and --slope-toward go together")
+		}
+		if !(*height > 0) || math.IsInf(*height, 0) {
+			return usageErr(fs, "--height %g must be positive", *height)
+		}
+		if !(*length > 0) || math.IsInf(*length, 0) {
+			return usageErr(fs, "--shadow-length %g must be positive", *length)
+		}
+		if !(*slope >= 0 && *slope < 90) {
+			return usageErr(fs, "--slope %g is outside 0..90 (exclusive)", *slope)
+		}
+		if math.IsNaN(*bearing) || math.IsInf(*bearing, 0) || math.IsNaN(*slopeToward) || math.IsInf(*slopeToward, 0) {
+			return usageErr(fs, "bearings must be finite numbers of degrees")
+		}
+		sh := shadow.Shadow{Height: *height, Length: *length, BearingDeg: *bearing,
+			Ground: shadow.Ground{SlopeDeg: *slope, TowardDeg: *slopeToward}}
+		est, err := shadow.Propagate(sh, shadow.Uncertainty{LengthSDPct: *lenSD, BearingSDDeg: *bearingSD})
+		if err != nil {
+			return usageErr(fs, "%v", err)
+		}
+		m = invert.FromShadow(est)
+		from0 = "shadow"
+	case set["azimuth"] || set["altitude"]:
+		if set["azimuth"] {
+			if math.IsNaN(*az) || math.IsInf(*az, 0) {
+				return usageErr(fs, "--azimuth %g is not an angle", *az)
+			}
+			m.HasAzimuth, m.AzimuthDeg, m.AzimuthSDDeg = true, math.Mod(math.Mod(*az, 360)+360, 360), *azSD
+		}
+		if set["altitude"] {
+			if !(*alt >= -90 && *alt <= 90) {
+				return usageErr(fs, "--altitude %g is outside -90..90", *alt)
+			}
+			m.HasAltitude, m.AltitudeDeg, m.AltitudeSDDeg = true, *alt, *altSD
+		}
+		from0 = "measured"
+	default:
+		return usageErr(fs, "a measurement is required: --azimuth and/or --altitude, or a shadow")
+	}
+
+	ws, err := invert.When(invert.Query{
+		Observer:    spa.NewObserver(*lat, *lon, 0),
+		From:        start,
+		To:          end,
+		Measurement: m,
+	})
+	if errors.Is(err, invert.ErrInvalid) {
+		return usageErr(fs, "%v", err)
+	}
+	if err != nil {
+		return fail(e.stderr, "when", err)
+	}
+	out := whenJSON{Matches: []whenMatchJSON{}}
+	for _, w := range ws {
+		out.Matches = append(out.Matches, whenMatchJSON{
+			Best: w.Best.UTC().Format(time.RFC3339), Earliest: w.Earliest.UTC().Format(time.RFC3339),
+			Latest: w.Latest.UTC().Format(time.RFC3339),
+			// SPA is good to 0.0003°; four decimals keep that and no more.
+			Azimuth: roundTo(w.AzimuthDeg, 4), Altitude: roundTo(w.AltitudeDeg, 4), Misfit: roundTo(w.Misfit, 3),
+		})
+	}
+	if *asJSON {
+		enc := json.NewEncoder(e.stdout)
+		enc.SetIndent("", "  ")
+		if err := enc.Encode(out); err != nil {
+			return fail(e.stderr, "when", fmt.Errorf("write JSON: %w", err))
+		}
+		return exitOK
+	}
+	if err := writeWhenTable(e.stdout, m, from0, *lat, *lon, d0, d1, loc, ws); err != nil {
+		return fail(e.stderr, "when", fmt.Errorf("write output: %w", err))
+	}
+	return exitOK
+}
+
+// writeWhenTable prints the readable form: what was measured, then one
+// aligned row per window.
+func writeWhenTable(w io.Writer, m invert.Measurement, source string, lat, lon float64, d0, d1 string, loc *time.Location, ws []invert.Window) error {
+	var b strings.Builder
+	var parts []string
+	if m.HasAzimuth {
+		parts = append(parts, fmt.Sprintf("azimuth %.2f° ± %.2f°", m.AzimuthDeg, m.AzimuthSDDeg))
+	}
+	if m.HasAltitude {
+		parts = append(parts, fmt.Sprintf("altitude %.2f° ± %.2f°", m.AltitudeDeg, m.AltitudeSDDeg))
+	}
+	if m.Correlation != 0 {
+		parts = append(parts, fmt.Sprintf("correlation %.2f", m.Correlation))
+	}
+	fmt.Fprintf(&b, "%-10s %s (%s, 1-sigma)\n", "sun", strings.Join(parts, ", "), source)
+	fmt.Fprintf(&b, "%-10s %.5f° lat, %.5f° lon\n", "place", lat, lon)
+	fmt.Fprintf(&b, "%-10s %s to %s (%s)\n", "days", d0, d1, loc)
+	fmt.Fprintf(&b, "%-10s misfit χ² below %.3f (%d dof, 95 %%); sun above the horizon\n", "match", m.Threshold(), m.Dof())
+	if len(ws) == 0 {
+		b.WriteString("\nno time in the range fits the measurement\n")
+		_, err := io.WriteString(w, b.String())
+		return err
+	}
+	local := loc != time.UTC
+	b.WriteString("\n")
+	header := fmt.Sprintf("%3s  %-20s  %-20s  %-20s  %10s  %10s  %6s", "#", "earliest (UTC)", "best (UTC)", "latest (UTC)", "azimuth °", "altitude °", "χ²")
+	if local {
+		header += "  best (local)"
+	}
+	b.WriteString(header + "\n")
+	for i, x := range ws {
+		note := ""
+		if x.StartsBefore {
+			note += "  (starts before the range)"
+		}
+		if x.EndsAfter {
+			note += "  (ends after the range)"
+		}
+		row := fmt.Sprintf("%3d  %-20s  %-20s  %-20s  %10.4f  %10.4f  %6.3f", i+1,
+			x.Earliest.UTC().Format(time.RFC3339), x.Best.UTC().Format(time.RFC3339), x.Latest.UTC().Format(time.RFC3339),
+			x.AzimuthDeg, x.AltitudeDeg, x.Misfit)
+		if local {
+			row += "  " + x.Best.In(loc).Format("2006-01-02 15:04:05 MST")
+		}
+		b.WriteString(row + note + "\n")
+	}
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+// roundTo rounds x to the given number of decimal places.
+func roundTo(x float64, places int) float64 {
+	p := math.Pow(10, float64(places))
+	return math.Round(x*p) / p
+}
