@@ -229,7 +229,10 @@ func doAudit(ctx context.Context, e env, cfg auditConfig) (sum summary, err erro
 	}
 
 	zones := zone.NewFinder(nil)
-	st := selftest.Run(zones)
+	// The self-test loads the zone map (about a second); run it while the
+	// files are read rather than before.
+	stDone := make(chan selftest.Result, 1)
+	go func() { stDone <- selftest.Run(zones) }()
 	x := solarcheck.NewExaminer(solarcheck.Options{Zones: zones})
 
 	opt := audit.Options{Workers: cfg.workers, Examiner: x, Sheet: sh}
@@ -243,6 +246,7 @@ func doAudit(ctx context.Context, e env, cfg auditConfig) (sum summary, err erro
 	opt.Progress = prog.step
 	res, err := audit.Run(ctx, entries, opt)
 	prog.finish()
+	st := <-stDone
 	if err != nil {
 		return sum, err
 	}

@@ -1,0 +1,46 @@
+#!/usr/bin/env bash
+# Audit benchmark (issue: the audit end to end). In one run, over the same
+# folder of N generated multi-megabyte JPEGs (3000x2000, about 2.7 MB each,
+# camera-like EXIF; exifread/internal/benchset), it times:
+#   1. gnomon audit without thumbnails (all four reports);
+#   2. a single-threaded Go crypto/sha256 pass over the files (the floor:
+#      every byte must be hashed);
+#   3. sha256sum over the files;
+#   4. gnomon audit with thumbnails;
+# and the peak resident memory of each audit (GNU time), plus the audit's
+# peak memory at N/4 to show whether it grows with the number of photos.
+# Usage: testdata/bench_audit.sh [N] (default 2000). Needs go, sha256sum and
+# /usr/bin/time (Debian package "time"). Writes only under a temporary
+# folder, removed at exit. The page cache is warmed first so every contender
+# reads from memory.
+set -euo pipefail
+n="${1:-2000}"
+root="$(cd "$(dirname "$0")/.." && pwd)"
+tmp="$(mktemp -d)"
+trap 'rm -rf "$tmp"' EXIT
+cd "$root"
+go build -o "$tmp/gnomon" ./cmd/gnomon
+go build -o "$tmp/hashpass" ./internal/benchtools/hashpass
+go run ./exifread/internal/benchset/gen -n "$n" -out "$tmp/photos"
+mkdir -p "$tmp/quarter"
+go run ./exifread/internal/benchset/gen -n "$((n / 4))" -out "$tmp/quarter"
+mb=$(du -sm "$tmp/photos" | cut -f1)
+echo "$(go version); $(nproc) cores; $n files, $mb MB"
+cat "$tmp"/photos/* > /dev/null
+
+secs() { local s e; s=$(date +%s.%N); "$@" > /dev/null 2>&1; e=$(date +%s.%N); echo "$e - $s" | bc -l; }
+peak() { /usr/bin/time -f '%M' "$@" 2>&1 >/dev/null | tail -1; } # KB
+
+t_audit=$(secs "$tmp/gnomon" audit "$tmp/photos" --out "$tmp/r1" --quiet --thumbnails=false)
+t_hash=$(secs "$tmp/hashpass" "$tmp/photos")
+t_sum=$(secs sh -c "find '$tmp/photos' -type f -print0 | xargs -0 sha256sum")
+t_thumb=$(secs "$tmp/gnomon" audit "$tmp/photos" --out "$tmp/r2" --quiet)
+m_full=$(peak "$tmp/gnomon" audit "$tmp/photos" --out "$tmp/r3" --quiet --thumbnails=false)
+m_quarter=$(peak "$tmp/gnomon" audit "$tmp/quarter" --out "$tmp/r4" --quiet --thumbnails=false)
+
+printf 'single-threaded crypto/sha256 pass: %8.2f s  (%.0f MB/s)\n' "$t_hash" "$(echo "$mb/$t_hash" | bc -l)"
+printf 'sha256sum:                          %8.2f s  (%.2fx the hash pass)\n' "$t_sum" "$(echo "$t_sum/$t_hash" | bc -l)"
+printf 'gnomon audit, no thumbnails:        %8.2f s  (%.2fx the hash pass)\n' "$t_audit" "$(echo "$t_audit/$t_hash" | bc -l)"
+printf 'gnomon audit, with thumbnails:      %8.2f s  (%.2fx the hash pass)\n' "$t_thumb" "$(echo "$t_thumb/$t_hash" | bc -l)"
+printf 'peak RSS, audit of %d files:  %6.0f MB\n' "$n" "$(echo "$m_full/1024" | bc -l)"
+printf 'peak RSS, audit of %d files:  %6.0f MB\n' "$((n / 4))" "$(echo "$m_quarter/1024" | bc -l)"
