@@ -2,6 +2,7 @@ package solarcheck
 
 import (
 	"errors"
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"math/rand/v2"
 	"sync"
@@ -84,7 +85,7 @@ func (s scene) photo(t *testing.T, path string) Photo {
 			bearing += s.noise.NormFloat64() * sd
 			length *= 1 + s.noise.NormFloat64()*0.05
 		}
-		hh, ll, bb := h, length, norm360(bearing)
+		hh, ll, bb := h, length, angle.Norm360(bearing)
 		rows = append(rows, sheet.Row{File: "sheet.csv", Line: 2 + i, Kind: sheet.KindShadow, Photo: path, Object: "post",
 			ObjectHeight: &hh, ShadowLength: &ll, ShadowBearingDeg: &bb, BearingRef: sheet.RefTrue, BearingSDDeg: sd, LengthSDPct: 5})
 	}

@@ -2,6 +2,7 @@ package solarcheck
 
 import (
 	"fmt"
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"time"
 
@@ -31,8 +32,8 @@ func directions(rows []sheet.Row, latDeg, lonDeg float64, hasPlace bool, at time
 			est, err := shadow.Propagate(shadow.Shadow{
 				Height:     *r.ObjectHeight,
 				Length:     *r.ShadowLength,
-				BearingDeg: norm360(*r.ShadowBearingDeg + corr),
-				Ground:     shadow.Ground{SlopeDeg: r.SlopeDeg, TowardDeg: norm360(r.SlopeTowardDeg + corr)},
+				BearingDeg: angle.Norm360(*r.ShadowBearingDeg + corr),
+				Ground:     shadow.Ground{SlopeDeg: r.SlopeDeg, TowardDeg: angle.Norm360(r.SlopeTowardDeg + corr)},
 			}, shadow.Uncertainty{LengthSDPct: r.LengthSDPct, BearingSDDeg: r.BearingSDDeg})
 			if err != nil {
 				problems = append(problems, fmt.Sprintf("%s line %d: %v", r.File, r.Line, err))
@@ -42,10 +43,10 @@ func directions(rows []sheet.Row, latDeg, lonDeg float64, hasPlace bool, at time
 			d.AltitudeDeg, d.AltitudeSDDeg, d.HasAltitude = est.Sun.AltitudeDeg, est.AltitudeSDDeg, true
 			d.Correlation = est.Correlation
 		case sheet.KindShadowBearing:
-			d.AzimuthDeg, d.AzimuthSDDeg, d.HasAzimuth = norm360(*r.ShadowBearingDeg+corr+180), r.BearingSDDeg, true
+			d.AzimuthDeg, d.AzimuthSDDeg, d.HasAzimuth = angle.Norm360(*r.ShadowBearingDeg+corr+180), r.BearingSDDeg, true
 		case sheet.KindSighting:
 			if r.SunAzimuthDeg != nil {
-				d.AzimuthDeg, d.AzimuthSDDeg, d.HasAzimuth = norm360(*r.SunAzimuthDeg+corr), r.BearingSDDeg, true
+				d.AzimuthDeg, d.AzimuthSDDeg, d.HasAzimuth = angle.Norm360(*r.SunAzimuthDeg+corr), r.BearingSDDeg, true
 			}
 			if r.SunAltitudeDeg != nil {
 				// A sighted altitude is taken with the same 1-sigma as the bearing.
@@ -116,7 +117,7 @@ func combine(ds []Direction) (m invert.Measurement, spreadChi2 float64, dof int)
 	}
 	if nAz > 0 {
 		m.HasAzimuth = true
-		m.AzimuthDeg = norm360(math.Atan2(sy, sx) * 180 / math.Pi)
+		m.AzimuthDeg = angle.Norm360(math.Atan2(sy, sx) * 180 / math.Pi)
 		m.AzimuthSDDeg = 1 / math.Sqrt(wAz)
 	}
 	if nAlt > 0 {
@@ -129,7 +130,7 @@ func combine(ds []Direction) (m invert.Measurement, spreadChi2 float64, dof int)
 	}
 	for _, d := range ds {
 		if d.HasAzimuth {
-			r := wrap180(d.AzimuthDeg-m.AzimuthDeg) / d.AzimuthSDDeg
+			r := angle.Wrap180(d.AzimuthDeg-m.AzimuthDeg) / d.AzimuthSDDeg
 			spreadChi2 += r * r
 		}
 		if d.HasAltitude {
@@ -139,17 +140,4 @@ func combine(ds []Direction) (m invert.Measurement, spreadChi2 float64, dof int)
 	}
 	dof = max(nAz-1, 0) + max(nAlt-1, 0)
 	return m, spreadChi2, dof
-}
-
-func norm360(a float64) float64 {
-	a = math.Mod(a, 360)
-	if a < 0 {
-		a += 360
-	}
-	return a
-}
-
-func wrap180(a float64) float64 {
-	a = norm360(a + 180)
-	return a - 180
 }

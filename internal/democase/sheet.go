@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/csv"
 	"fmt"
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"math/rand/v2"
 	"os"
@@ -32,7 +33,7 @@ const (
 func measure(ps pose, sun sunState, spec cameraSpec, declDeg float64, r *rand.Rand) []Shadow {
 	cam := newCamera(ps, ImageWidth, ImageHeight)
 	sx, sy, perH := sun.shadowDir()
-	trueBearing := norm360(sun.azimuthDeg + 180)
+	trueBearing := angle.Norm360(sun.azimuthDeg + 180)
 	inFrame := func(u, v float64) bool {
 		return u >= marginPx && u <= ImageWidth-marginPx && v >= marginPx && v <= ImageHeight-marginBottomPx
 	}
@@ -61,14 +62,14 @@ func measure(ps pose, sun sunState, spec cameraSpec, declDeg float64, r *rand.Ra
 			}
 		}
 		s := Shadow{Object: o.Name, HeightM: o.HeightM, TrueLengthM: l, TrueBearingDeg: trueBearing, BearingRef: "true"}
-		measured := norm360(trueBearing + normal(r)*BearingSDDeg)
+		measured := angle.Norm360(trueBearing + normal(r)*BearingSDDeg)
 		s.SheetLengthM = round(l*(1+normal(r)*LengthSDPct/100), 2)
 		if spec.magnetic {
 			// A compass reads magnetic bearings: true = magnetic + declination.
 			s.BearingRef, s.DeclinationDeg = "magnetic", declDeg
-			measured = norm360(measured - declDeg)
+			measured = angle.Norm360(measured - declDeg)
 		}
-		s.SheetBearing = norm360(round(measured, 1))
+		s.SheetBearing = angle.Norm360(round(measured, 1))
 		out = append(out, s)
 	}
 	return out
@@ -77,18 +78,6 @@ func measure(ps pose, sun sunState, spec cameraSpec, declDeg float64, r *rand.Ra
 func round(v float64, places int) float64 {
 	k := math.Pow(10, float64(places))
 	return math.Round(v*k) / k
-}
-
-// norm360 maps an angle to [0, 360).
-func norm360(a float64) float64 {
-	a = math.Mod(a, 360)
-	if a < 0 {
-		a += 360
-	}
-	if a >= 360 {
-		a -= 360
-	}
-	return a
 }
 
 func ftoa(v float64, places int) string { return strconv.FormatFloat(v, 'f', places, 64) }

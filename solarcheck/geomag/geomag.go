@@ -307,15 +307,3 @@ func wrap180(a float64) float64 {
 	}
 	return a
 }
-
-// wrap360 reduces an angle to [0°, 360°).
-func wrap360(a float64) float64 {
-	a = math.Mod(a, 360)
-	if a < 0 {
-		a += 360
-	}
-	if a >= 360 {
-		a = 0
-	}
-	return a
-}

@@ -2,6 +2,7 @@ package geomag
 
 import (
 	"fmt"
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 )
 
@@ -14,7 +15,7 @@ import (
 // where D (declination) is positive when magnetic north lies east of true north.
 // Example: D = +3° (east); a compass reading of 100° is 103° true.
 func MagneticToTrue(magneticDeg, declinationDeg float64) float64 {
-	return wrap360(magneticDeg + declinationDeg)
+	return angle.Norm360(magneticDeg + declinationDeg)
 }
 
 // GridToTrue turns a grid bearing into a true one: true = grid + γ, where γ (the
@@ -23,7 +24,7 @@ func MagneticToTrue(magneticDeg, declinationDeg float64) float64 {
 // of the zone's central meridian and negative west of it; in the southern hemisphere
 // the signs swap.
 func GridToTrue(gridDeg, convergenceDeg float64) float64 {
-	return wrap360(gridDeg + convergenceDeg)
+	return angle.Norm360(gridDeg + convergenceDeg)
 }
 
 // UTMZoneError reports a latitude outside the UTM system (80°S to 84°N), where the

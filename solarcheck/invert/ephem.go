@@ -1,6 +1,7 @@
 package invert
 
 import (
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"time"
 
@@ -112,23 +113,10 @@ func (e *ephem) geocentric(s float64) spa.Geocentric {
 		JD:                jd,
 		JDE:               jd + dt/86400,
 		DeltaTSec:         dt,
-		RightAscensionDeg: norm360(interp(e.ra, i, w)),
+		RightAscensionDeg: angle.Norm360(interp(e.ra, i, w)),
 		DeclinationDeg:    interp(e.dec, i, w),
-		SiderealDeg:       norm360(siderealRateDeg*(jd-j2000) + interp(e.sidRes, i, w)),
+		SiderealDeg:       angle.Norm360(siderealRateDeg*(jd-j2000) + interp(e.sidRes, i, w)),
 		EarthRadiusAU:     interp(e.radius, i, w),
 		EquationOfTimeMin: interp(e.eot, i, w),
 	}
-}
-
-func norm360(a float64) float64 {
-	a = math.Mod(a, 360)
-	if a < 0 {
-		a += 360
-	}
-	return a
-}
-
-// wrap180 maps an angle difference to [−180, 180).
-func wrap180(a float64) float64 {
-	return a - 360*math.Floor((a+180)/360)
 }

@@ -3,6 +3,7 @@ package invert
 import (
 	"errors"
 	"fmt"
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"runtime"
 	"sort"
@@ -123,7 +124,7 @@ func (m *Measurement) chi2c(azDeg, altDeg, c float64) float64 {
 		}
 		f := skySDDeg / c
 		sd := math.Sqrt(m.AzimuthSDDeg*m.AzimuthSDDeg + f*f)
-		dAz = wrap180(azDeg-m.AzimuthDeg) / sd
+		dAz = angle.Wrap180(azDeg-m.AzimuthDeg) / sd
 		rho = m.Correlation * m.AzimuthSDDeg / sd
 	}
 	if m.HasAltitude {

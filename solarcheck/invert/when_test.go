@@ -2,6 +2,7 @@ package invert
 
 import (
 	"errors"
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"math/rand/v2"
 	"testing"
@@ -38,7 +39,7 @@ func TestEphemMatchesSPA(t *testing.T) {
 		o := spa.NewObserver(r.Float64()*180-90, r.Float64()*360-180, 0)
 		got := e.geocentric(s).Topocentric(o)
 		want := spa.At(ts, o, spa.DeltaT(ts))
-		dAz := math.Abs(wrap180(got.AzimuthDeg-want.AzimuthDeg)) * math.Cos(want.AltitudeDeg*deg)
+		dAz := math.Abs(angle.Wrap180(got.AzimuthDeg-want.AzimuthDeg)) * math.Cos(want.AltitudeDeg*deg)
 		if dAz > 1e-5 || math.Abs(got.AltitudeDeg-want.AltitudeDeg) > 1e-5 {
 			t.Fatalf("%s: %s at %.2f,%.2f: interpolated az %.7f alt %.7f, spa.At %.7f %.7f",
 				srcRT, ts, o.LatDeg, o.LonDeg, got.AzimuthDeg, got.AltitudeDeg, want.AzimuthDeg, want.AltitudeDeg)

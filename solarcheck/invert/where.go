@@ -2,6 +2,7 @@ package invert
 
 import (
 	"fmt"
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"sort"
 	"time"
@@ -106,7 +107,7 @@ func Where(q WhereQuery) ([]Fix, error) {
 		} else if lat < -90 {
 			lat, lon = -180-lat, lon+180
 		}
-		return lat, wrap180(lon)
+		return lat, angle.Wrap180(lon)
 	}
 	// solve minimises |r|² by Levenberg–Marquardt steps in north/east km.
 	// Where an exact solution exists this is Newton's method near it;
@@ -199,7 +200,7 @@ func Where(q WhereQuery) ([]Fix, error) {
 		f := Fix{LatDeg: lat, LonDeg: lon, Misfit: misfit, SubsolarLatDeg: ssp.SubsolarLatDeg, SubsolarLonDeg: ssp.SubsolarLonDeg,
 			SemiMajorKm: math.Sqrt(mid + d), SemiMinorKm: math.Sqrt(math.Max(mid-d, 0))}
 		// Bearing of the major axis: the eigenvector's angle from north, tan 2θ = 2b/(a − c).
-		f.MajorAxisDeg = math.Mod(norm360(math.Atan2(2*b, a-c)/2/deg), 180)
+		f.MajorAxisDeg = math.Mod(angle.Norm360(math.Atan2(2*b, a-c)/2/deg), 180)
 		f.RadiusKm = math.Sqrt(Chi2Dof2P95) * f.SemiMajorKm
 		fixes = append(fixes, f)
 	}
@@ -220,7 +221,7 @@ func destination(latDeg, lonDeg, bearingDeg, distDeg float64) (float64, float64)
 	sB, cB := math.Sincos(bearingDeg * deg)
 	lat := math.Asin(sP*cD + cP*sD*cB)
 	lon := lonDeg*deg + math.Atan2(sB*sD*cP, cD-sP*math.Sin(lat))
-	return lat / deg, wrap180(lon / deg)
+	return lat / deg, angle.Wrap180(lon / deg)
 }
 
 // distanceKm is the great-circle distance on the mean sphere (haversine).
@@ -280,8 +281,8 @@ func circleOfPosition(decDeg, gpLonDeg, azDeg, altDeg float64) [][2]float64 {
 		sh, ch := math.Sincos(h)
 		gotAlt := math.Asin(sP*sD+cP*cD*ch) / deg
 		gotAz := math.Atan2(sh, ch*sP-sD/cD*cP)/deg + 180 // SPA Eq. 45–46 without parallax
-		if math.Abs(wrap180(gotAz-azDeg))*math.Cos(altDeg*deg)+math.Abs(gotAlt-altDeg) < 0.5 {
-			out = append(out, [2]float64{phi / deg, wrap180(gpLonDeg + h/deg)})
+		if math.Abs(angle.Wrap180(gotAz-azDeg))*math.Cos(altDeg*deg)+math.Abs(gotAlt-altDeg) < 0.5 {
+			out = append(out, [2]float64{phi / deg, angle.Wrap180(gpLonDeg + h/deg)})
 		}
 	}
 	if len(out) == 0 && (altDeg > 89.9 || cD < 1e-12) { // degenerate: start at the GP

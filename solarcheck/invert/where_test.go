@@ -2,6 +2,7 @@ package invert
 
 import (
 	"errors"
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"math/rand/v2"
 	"testing"
@@ -57,7 +58,7 @@ func TestWhereRoundTrip(t *testing.T) {
 				best = math.Min(best, distanceKm(f.LatDeg, f.LonDeg, tc.lat, tc.lon))
 				// Every fix must really see the sun where it was measured.
 				q := sunAt(f.LatDeg, f.LonDeg, tc.at)
-				if math.Abs(wrap180(q.AzimuthDeg-p.AzimuthDeg))*math.Cos(p.AltitudeDeg*deg) > 1e-6 || math.Abs(q.AltitudeDeg-p.AltitudeDeg) > 1e-6 {
+				if math.Abs(angle.Wrap180(q.AzimuthDeg-p.AzimuthDeg))*math.Cos(p.AltitudeDeg*deg) > 1e-6 || math.Abs(q.AltitudeDeg-p.AltitudeDeg) > 1e-6 {
 					t.Errorf("%s: fix %+v sees az %.6f alt %.6f, measured %.6f %.6f", tc.source, f, q.AzimuthDeg, q.AltitudeDeg, p.AzimuthDeg, p.AltitudeDeg)
 				}
 				// 0.5° in altitude moves the circle of position by 55.6 km.

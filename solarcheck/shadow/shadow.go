@@ -32,6 +32,7 @@ package shadow
 import (
 	"errors"
 	"fmt"
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 )
 
@@ -102,14 +103,6 @@ func (g Ground) tilt(bearingDeg float64) float64 {
 	return math.Tan(g.SlopeDeg*deg) * math.Cos((bearingDeg-g.TowardDeg)*deg)
 }
 
-func norm360(a float64) float64 {
-	a = math.Mod(a, 360)
-	if a < 0 {
-		a += 360
-	}
-	return a
-}
-
 func (s Shadow) check() error {
 	switch {
 	case !(s.Height > 0) || math.IsInf(s.Height, 0):
@@ -165,7 +158,7 @@ func SunFromShadow(s Shadow) (Sun, error) {
 		return Sun{}, fmt.Errorf("shadow climbs above the object's top: %w", ErrNoShadow)
 	}
 	return Sun{
-		AzimuthDeg:  norm360(s.BearingDeg + 180),
+		AzimuthDeg:  angle.Norm360(s.BearingDeg + 180),
 		AltitudeDeg: math.Atan(tanE) / deg,
 	}, nil
 }
@@ -186,7 +179,7 @@ func ShadowFromSun(sun Sun, height float64, g Ground) (length, bearingDeg float6
 	if sun.AltitudeDeg <= 0 {
 		return 0, 0, fmt.Errorf("sun altitude %g°: %w", sun.AltitudeDeg, ErrNoShadow)
 	}
-	bearingDeg = norm360(sun.AzimuthDeg + 180)
+	bearingDeg = angle.Norm360(sun.AzimuthDeg + 180)
 	k := g.tilt(bearingDeg)
 	den := math.Tan(sun.AltitudeDeg*deg) - k // eq. (3)
 	if !(den > 0) {

@@ -2,6 +2,7 @@ package shadow
 
 import (
 	"errors"
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"math/rand/v2"
 	"testing"
@@ -67,15 +68,15 @@ func TestSlopeLawOfSines(t *testing.T) {
 		const h = 1.7
 		toward := 40.0
 		bearing := toward + tc.rel
-		sun := Sun{AzimuthDeg: norm360(bearing + 180), AltitudeDeg: tc.altDeg}
+		sun := Sun{AzimuthDeg: angle.Norm360(bearing + 180), AltitudeDeg: tc.altDeg}
 		g := Ground{SlopeDeg: tc.slope, TowardDeg: toward}
 		l, b, err := ShadowFromSun(sun, h, g)
 		if err != nil {
 			t.Fatalf("%s: %v", tc.source, err)
 		}
 		want := tc.want(h, tc.altDeg*deg, tc.slope*deg)
-		if !near(l, want, 1e-9*want) || !near(b, norm360(bearing), 1e-9) {
-			t.Errorf("%s (alt %g, slope %g, rel %g): L %.9f b %.6f, want L %.9f b %.6f", tc.source, tc.altDeg, tc.slope, tc.rel, l, b, want, norm360(bearing))
+		if !near(l, want, 1e-9*want) || !near(b, angle.Norm360(bearing), 1e-9) {
+			t.Errorf("%s (alt %g, slope %g, rel %g): L %.9f b %.6f, want L %.9f b %.6f", tc.source, tc.altDeg, tc.slope, tc.rel, l, b, want, angle.Norm360(bearing))
 		}
 		back, err := SunFromShadow(Shadow{Height: h, Length: l, BearingDeg: b, Ground: g})
 		if err != nil {

@@ -1,6 +1,7 @@
 package spa
 
 import (
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"time"
 )
@@ -141,7 +142,7 @@ func (r riseSet) at(m float64) (hDeg, hpDeg, deltaPDeg float64) {
 	n := m + r.dtDay           // Eq. A8
 	alphaP := interp(r.alpha, n, true)
 	deltaP := interp(r.delta, n, false)
-	hp := normalize180(nuI + r.o.LonDeg - alphaP) // Eq. A11
+	hp := angle.Wrap180(nuI + r.o.LonDeg - alphaP) // Eq. A11
 	sd, cd := math.Sincos(deltaP * deg)
 	h := math.Asin(r.sinPhi*sd+r.cosPhi*cd*math.Cos(hp*deg)) * rad // Eq. A12
 	return h, hp, deltaP
@@ -160,8 +161,8 @@ func interp(v [3]float64, n float64, wrap bool) float64 {
 	a := v[1] - v[0]
 	b := v[2] - v[1]
 	if wrap {
-		a = normalize180(a)
-		b = normalize180(b)
+		a = angle.Wrap180(a)
+		b = angle.Wrap180(b)
 	}
 	c := b - a
 	return v[1] + n*(a+b+c*n)/2

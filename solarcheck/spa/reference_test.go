@@ -3,6 +3,7 @@ package spa
 import (
 	"bufio"
 	"encoding/csv"
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"os"
 	"strconv"
@@ -87,14 +88,14 @@ func TestReferenceTable(t *testing.T) {
 	for _, c := range cases {
 		p := At(c.t, c.obs, c.deltaT)
 		dAlt := math.Abs(p.AltitudeAirlessDeg - c.altAirless)
-		dAz := math.Abs(normalize180(p.AzimuthDeg-c.az)) * math.Cos(c.altAirless*deg)
+		dAz := math.Abs(angle.Wrap180(p.AzimuthDeg-c.az)) * math.Cos(c.altAirless*deg)
 		dEoT := math.Abs(p.EquationOfTimeMin - c.eotMin)
 		dDecl := math.Abs(p.DeclinationDeg - c.decl)
 		// The reference's EoT is apparent solar time minus UT1; so is this
 		// one (from the hour angle). SPA's Eq. A1 departs from it by
 		// ΔT·0.0000456 min (≤ 0.0094 min here, at ΔT = 205 s in 2100).
 		mean := ApparentSolarTime(c.t, c.obs.LonDeg, 0)
-		eotH := normalize180(float64(p.ApparentSolarTime-mean)/float64(time.Minute)*0.25) * 4
+		eotH := angle.Wrap180(float64(p.ApparentSolarTime-mean)/float64(time.Minute)*0.25) * 4
 		dEoTH := math.Abs(eotH - c.eotMin)
 		maxEoTH = math.Max(maxEoTH, dEoTH)
 		if dEoTH > tolEoTH {

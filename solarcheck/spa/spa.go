@@ -1,6 +1,7 @@
 package spa
 
 import (
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"time"
 )
@@ -153,15 +154,15 @@ func geocentricJD(jd, deltaTSec float64) Geocentric {
 	jme := g.JME
 
 	// 3.2 Earth heliocentric longitude, latitude and radius vector.
-	lRad := seriesSum(jme, 0, 6)             // Eq. 9–11
-	bRad := seriesSum(jme, 6, 2)             // Eq. 9–11 for B
-	g.EarthRadiusAU = seriesSum(jme, 8, 5)   // Eq. 9–11 for R, AU
-	g.HelioLonDeg = normalize360(lRad * rad) // Eq. 12
-	g.HelioLatDeg = bRad * rad               // Eq. 12 for B
+	lRad := seriesSum(jme, 0, 6)              // Eq. 9–11
+	bRad := seriesSum(jme, 6, 2)              // Eq. 9–11 for B
+	g.EarthRadiusAU = seriesSum(jme, 8, 5)    // Eq. 9–11 for R, AU
+	g.HelioLonDeg = angle.Norm360(lRad * rad) // Eq. 12
+	g.HelioLatDeg = bRad * rad                // Eq. 12 for B
 
 	// 3.3 Geocentric longitude and latitude.
-	g.GeoLonDeg = normalize360(g.HelioLonDeg + 180) // Eq. 13
-	g.GeoLatDeg = -g.HelioLatDeg                    // Eq. 14
+	g.GeoLonDeg = angle.Norm360(g.HelioLonDeg + 180) // Eq. 13
+	g.GeoLatDeg = -g.HelioLatDeg                     // Eq. 14
 
 	// 3.4 Nutation in longitude and obliquity.
 	g.NutationLonDeg, g.NutationOblDeg = nutation(g.JCE) // Eq. 15–23
@@ -180,7 +181,7 @@ func geocentricJD(jd, deltaTSec float64) Geocentric {
 
 	// 3.8 Apparent sidereal time at Greenwich.
 	jc := g.JC
-	g.MeanSiderealDeg = normalize360(280.46061837 + 360.98564736629*(jd-j2000) +
+	g.MeanSiderealDeg = angle.Norm360(280.46061837 + 360.98564736629*(jd-j2000) +
 		jc*jc*(0.000387933-jc/38710000)) // Eq. 28
 	epsRad := g.ObliquityDeg * deg
 	g.SiderealDeg = g.MeanSiderealDeg + g.NutationLonDeg*math.Cos(epsRad) // Eq. 29
@@ -190,11 +191,11 @@ func geocentricJD(jd, deltaTSec float64) Geocentric {
 	beta := g.GeoLatDeg * deg
 	sinLam, cosLam := math.Sincos(lam)
 	sinEps, cosEps := math.Sincos(epsRad)
-	g.RightAscensionDeg = normalize360(math.Atan2(sinLam*cosEps-math.Tan(beta)*sinEps, cosLam) * rad) // Eq. 30
-	g.DeclinationDeg = math.Asin(math.Sin(beta)*cosEps+math.Cos(beta)*sinEps*sinLam) * rad            // Eq. 31
+	g.RightAscensionDeg = angle.Norm360(math.Atan2(sinLam*cosEps-math.Tan(beta)*sinEps, cosLam) * rad) // Eq. 30
+	g.DeclinationDeg = math.Asin(math.Sin(beta)*cosEps+math.Cos(beta)*sinEps*sinLam) * rad             // Eq. 31
 
 	// A.1 Equation of time.
-	g.SunMeanLonDeg = normalize360(280.4664567 + jme*(360007.6982779+jme*(0.03032028+
+	g.SunMeanLonDeg = angle.Norm360(280.4664567 + jme*(360007.6982779+jme*(0.03032028+
 		jme*(1.0/49931+jme*(-1.0/15300+jme*(-1.0/2000000)))))) // Eq. A2
 	e := g.SunMeanLonDeg - 0.0057183 - g.RightAscensionDeg + g.NutationLonDeg*cosEps // Eq. A1, degrees
 	eMin := 4 * e
@@ -254,8 +255,8 @@ func (g Geocentric) Topocentric(o Observer) Position {
 	phi := o.LatDeg * deg
 
 	// 3.11 Observer local hour angle.
-	h := normalize360(g.SiderealDeg + o.LonDeg - g.RightAscensionDeg) // Eq. 32
-	p.GeoHourAngleDeg = normalize180(h)
+	h := angle.Norm360(g.SiderealDeg + o.LonDeg - g.RightAscensionDeg) // Eq. 32
+	p.GeoHourAngleDeg = angle.Wrap180(h)
 	hRad := h * deg
 	sinH, cosH := math.Sincos(hRad)
 
@@ -272,13 +273,13 @@ func (g Geocentric) Topocentric(o Observer) Position {
 	den := cosDelta - x*sinXi*cosH
 	dAlpha := math.Atan2(-x*sinXi*sinH, den) // Eq. 37
 	p.ParallaxRADeg = dAlpha * rad
-	p.TopoRightAscensionDeg = normalize360(g.RightAscensionDeg + p.ParallaxRADeg) // Eq. 38
-	deltaP := math.Atan2((sinDelta-y*sinXi)*math.Cos(dAlpha), den)                // Eq. 39
+	p.TopoRightAscensionDeg = angle.Norm360(g.RightAscensionDeg + p.ParallaxRADeg) // Eq. 38
+	deltaP := math.Atan2((sinDelta-y*sinXi)*math.Cos(dAlpha), den)                 // Eq. 39
 	p.TopoDeclinationDeg = deltaP * rad
 
 	// 3.13 Topocentric local hour angle.
 	hp := hRad - dAlpha // Eq. 40
-	p.HourAngleDeg = normalize180(hp * rad)
+	p.HourAngleDeg = angle.Wrap180(hp * rad)
 	sinHp, cosHp := math.Sincos(hp)
 	sinDp, cosDp := math.Sincos(deltaP)
 
@@ -291,15 +292,15 @@ func (g Geocentric) Topocentric(o Observer) Position {
 
 	// 3.15 Topocentric azimuth.
 	gamma := math.Atan2(sinHp, cosHp*sinPhi-math.Tan(deltaP)*cosPhi) * rad // Eq. 45: astronomers' azimuth Γ (from south)
-	p.AzimuthDeg = normalize360(gamma + 180)                               // Eq. 46: from north, clockwise
+	p.AzimuthDeg = angle.Norm360(gamma + 180)                              // Eq. 46: from north, clockwise
 
 	p.SubsolarLatDeg = g.DeclinationDeg
-	p.SubsolarLonDeg = normalize180(g.RightAscensionDeg - g.SiderealDeg) // where Eq. 32 gives H = 0
+	p.SubsolarLonDeg = angle.Wrap180(g.RightAscensionDeg - g.SiderealDeg) // where Eq. 32 gives H = 0
 	// Local apparent solar time is the hour angle of the true sun plus 12 h.
 	// It is taken from H rather than from UT + longitude + E because E of
 	// Eq. A1 uses the mean sun of TT, which drifts from the UT-based mean
 	// sun by ΔT·0.9856°/day (0.003 min at ΔT = 65 s, 2 min at −2000).
-	p.ApparentSolarTime = durationOfDay((normalize360(h+180) / 15) * 3600)
+	p.ApparentSolarTime = durationOfDay((angle.Norm360(h+180) / 15) * 3600)
 	return p
 }
 
@@ -344,22 +345,4 @@ func durationOfDay(sec float64) time.Duration {
 		d -= 24 * time.Hour
 	}
 	return d
-}
-
-// normalize360 maps an angle in degrees to [0, 360).
-func normalize360(a float64) float64 {
-	a = math.Mod(a, 360)
-	if a < 0 {
-		a += 360
-	}
-	if a >= 360 {
-		a = 0
-	}
-	return a
-}
-
-// normalize180 maps an angle in degrees to [−180, 180).
-func normalize180(a float64) float64 {
-	a = normalize360(a + 180)
-	return a - 180
 }

@@ -1,6 +1,7 @@
 package spa
 
 import (
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"testing"
 	"time"
@@ -208,7 +209,7 @@ func TestCommonKnowledgeSiderealDay(t *testing.T) {
 	} {
 		g0 := GeocentricAt(tm, 0)
 		g1 := GeocentricAt(tm.Add(24*time.Hour), 0)
-		rate := (normalize360(g1.SiderealDeg-g0.SiderealDeg) + 360) / 86400 // degrees per UT second
+		rate := (angle.Norm360(g1.SiderealDeg-g0.SiderealDeg) + 360) / 86400 // degrees per UT second
 		sid := time.Duration(360 / rate * 1e9)
 		want := 23*time.Hour + 56*time.Minute + 4090*time.Millisecond
 		if d := (sid - want).Abs(); d > 50*time.Millisecond {
