@@ -57,3 +57,21 @@ func fail(w io.Writer, cmd string, err error) int {
 	fmt.Fprintf(w, "gnomon %s: %v\n", cmd, err)
 	return exitFailure
 }
+
+// flagsSet returns the names of the flags given on the command line, so a
+// command can tell "--lat 0" from no --lat at all.
+func flagsSet(fs *flag.FlagSet) map[string]bool {
+	set := map[string]bool{}
+	fs.Visit(func(fl *flag.Flag) { set[fl.Name] = true })
+	return set
+}
+
+// firstMissing returns the first of names that is not in set, or "".
+func firstMissing(set map[string]bool, names ...string) string {
+	for _, n := range names {
+		if !set[n] {
+			return n
+		}
+	}
+	return ""
+}

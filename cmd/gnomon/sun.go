@@ -3,7 +3,6 @@ package main
 import (
 	"encoding/json"
 	"errors"
-	"flag"
 	"fmt"
 	"io"
 	"math"
@@ -155,12 +154,9 @@ func runSun(e env, args []string) int {
 	if fs.NArg() > 0 {
 		return usageErr(fs, "unexpected argument %q", fs.Arg(0))
 	}
-	set := map[string]bool{}
-	fs.Visit(func(fl *flag.Flag) { set[fl.Name] = true })
-	for _, name := range []string{"time", "lat", "lon"} {
-		if !set[name] {
-			return usageErr(fs, "--%s is required", name)
-		}
+	set := flagsSet(fs)
+	if missing := firstMissing(set, "time", "lat", "lon"); missing != "" {
+		return usageErr(fs, "--%s is required", missing)
 	}
 	switch {
 	case !(f.lat >= -90 && f.lat <= 90):

@@ -3,7 +3,6 @@ package main
 import (
 	"encoding/json"
 	"errors"
-	"flag"
 	"fmt"
 	"io"
 	"math"
@@ -79,12 +78,9 @@ func runWhen(e env, args []string) int {
 	if fs.NArg() > 0 {
 		return usageErr(fs, "unexpected argument %q", fs.Arg(0))
 	}
-	set := map[string]bool{}
-	fs.Visit(func(fl *flag.Flag) { set[fl.Name] = true })
-	for _, name := range []string{"lat", "lon"} {
-		if !set[name] {
-			return usageErr(fs, "--%s is required", name)
-		}
+	set := flagsSet(fs)
+	if missing := firstMissing(set, "lat", "lon"); missing != "" {
+		return usageErr(fs, "--%s is required", missing)
 	}
 	if !(*lat >= -90 && *lat <= 90) {
 		return usageErr(fs, "--lat %g is outside -90..90", *lat)

@@ -3,7 +3,6 @@ package main
 import (
 	"encoding/json"
 	"errors"
-	"flag"
 	"fmt"
 	"io"
 	"math"
@@ -56,12 +55,9 @@ func runWhere(e env, args []string) int {
 	if fs.NArg() > 0 {
 		return usageErr(fs, "unexpected argument %q", fs.Arg(0))
 	}
-	set := map[string]bool{}
-	fs.Visit(func(fl *flag.Flag) { set[fl.Name] = true })
-	for _, name := range []string{"time", "azimuth", "altitude"} {
-		if !set[name] {
-			return usageErr(fs, "--%s is required", name)
-		}
+	set := flagsSet(fs)
+	if missing := firstMissing(set, "time", "azimuth", "altitude"); missing != "" {
+		return usageErr(fs, "--%s is required", missing)
 	}
 	t, err := time.Parse(time.RFC3339, strings.TrimSpace(*ts))
 	if err != nil {
