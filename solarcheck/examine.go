@@ -161,19 +161,25 @@ func (x *Examiner) runChecks(f *Finding, p Photo) {
 // SunPath samples the sun every 10 minutes over the 24 hours centred on the
 // claimed moment, for the report's sky chart; nil when the finding has no
 // place or claim. It is computed on demand, not kept in every finding, so
-// that a large batch does not hold a day of sun positions per photo.
+// that a large batch does not hold a day of sun positions per photo, and
+// through the interpolating spa.Ephemeris (seven full evaluations instead
+// of 145, the same positions to 1e-5°).
 func (x *Examiner) SunPath(f *Finding) []SunSample {
 	if !f.HasPlace || !f.HasClaimed {
 		return nil
 	}
-	const step = 10 * time.Minute
-	start := f.Claimed.Add(-12 * time.Hour).Truncate(step)
+	const step, span = 10 * time.Minute, 24 * time.Hour
+	start := f.Claimed.Add(-span / 2).Truncate(step)
+	dt := x.deltaTFunc()
+	if dt == nil {
+		dt = spa.DeltaT
+	}
+	eph := spa.NewEphemeris(start, span.Seconds(), dt)
 	o := spa.NewObserver(f.LatDeg, f.LonDeg, f.ElevationM)
-	dt := x.deltaTAt(f.Claimed)
-	g := make([]SunSample, 0, 145)
-	for t := start; !t.After(start.Add(24 * time.Hour)); t = t.Add(step) {
-		pos := spa.At(t, o, dt)
-		g = append(g, SunSample{Time: t, AzimuthDeg: pos.AzimuthDeg, AltitudeDeg: pos.AltitudeDeg})
+	g := make([]SunSample, 0, int(span/step)+1)
+	for d := time.Duration(0); d <= span; d += step {
+		pos := eph.At(d.Seconds()).Topocentric(o)
+		g = append(g, SunSample{Time: start.Add(d), AzimuthDeg: pos.AzimuthDeg, AltitudeDeg: pos.AltitudeDeg})
 	}
 	return g
 }

@@ -2,7 +2,6 @@ package solarcheck
 
 import (
 	"errors"
-	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"math/rand/v2"
 	"sync"
@@ -10,6 +9,7 @@ import (
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/exifread"
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"github.com/gnomon-forensics/gnomon/solarcheck/shadow"
 	"github.com/gnomon-forensics/gnomon/solarcheck/sheet"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
@@ -288,5 +288,28 @@ func TestDriftRecovered(t *testing.T) {
 	t.Logf("drift recovered: %.2f s/day (true %.1f)", got, drift)
 	if math.Abs(got-drift) > 0.1*drift {
 		t.Errorf("drift %.2f s/day, want %.1f ± 10 %%", got, drift)
+	}
+}
+
+// TestSunPathMatchesSPA: the chart's sun path, computed through the
+// interpolating ephemeris, must agree with full spa.At at every sample
+// (spa.At is itself checked against the SPA report and astropy).
+func TestSunPathMatchesSPA(t *testing.T) {
+	x := sharedExaminer()
+	f := Finding{HasPlace: true, HasClaimed: true, LatDeg: -33.9, LonDeg: 18.4, ElevationM: 20,
+		Claimed: time.Date(2026, 12, 21, 9, 7, 13, 0, time.UTC)}
+	path := x.SunPath(&f)
+	if len(path) != 145 {
+		t.Fatalf("%d samples, want 145 (24 h every 10 min)", len(path))
+	}
+	o := spa.NewObserver(f.LatDeg, f.LonDeg, f.ElevationM)
+	for _, s := range path {
+		want := spa.At(s.Time, o, spa.DeltaT(s.Time))
+		if d := math.Abs(angle.Wrap180(s.AzimuthDeg-want.AzimuthDeg)) * math.Cos(want.AltitudeDeg*math.Pi/180); d > 1e-4 {
+			t.Errorf("%v: azimuth %.6f, spa.At %.6f", s.Time, s.AzimuthDeg, want.AzimuthDeg)
+		}
+		if d := math.Abs(s.AltitudeDeg - want.AltitudeDeg); d > 1e-4 {
+			t.Errorf("%v: altitude %.6f, spa.At %.6f", s.Time, s.AltitudeDeg, want.AltitudeDeg)
+		}
 	}
 }

@@ -2,10 +2,10 @@ package solarcheck
 
 import (
 	"fmt"
-	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"time"
 
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"github.com/gnomon-forensics/gnomon/solarcheck/geomag"
 	"github.com/gnomon-forensics/gnomon/solarcheck/invert"
 	"github.com/gnomon-forensics/gnomon/solarcheck/shadow"

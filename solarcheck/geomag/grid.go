@@ -2,8 +2,9 @@ package geomag
 
 import (
 	"fmt"
-	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
+
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 )
 
 // Bearing conventions used throughout gnomon: bearings are clockwise from north in

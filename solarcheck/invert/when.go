@@ -3,13 +3,13 @@ package invert
 import (
 	"errors"
 	"fmt"
-	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"runtime"
 	"sort"
 	"sync"
 	"time"
 
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"github.com/gnomon-forensics/gnomon/solarcheck/shadow"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
 )
@@ -184,7 +184,7 @@ type searcher struct {
 	m              Measurement
 	thr            float64
 	o              spa.Observer
-	eph            *ephem
+	eph            *spa.Ephemeris
 	spanS          float64
 	stepS          float64
 	n              int // grid points 0..n
@@ -227,7 +227,7 @@ func When(q Query) ([]Window, error) {
 		s.n = 1
 	}
 	s.stepS = s.spanS / float64(s.n)
-	s.eph = newEphem(q.From, s.spanS, dt)
+	s.eph = spa.NewEphemeris(q.From, s.spanS, dt)
 
 	seeds := s.screen()
 	wins := s.refine(seeds)
@@ -261,7 +261,7 @@ func (s *searcher) gridS(k int) float64 {
 // cheap is the screening misfit: geocentric, interpolated, with SPA's
 // refraction and without parallax.
 func (s *searcher) cheap(t float64) float64 {
-	ra, dec, sid := s.eph.raDecSid(t)
+	ra, dec, sid := s.eph.RaDecSidereal(t)
 	sinH, cosH := math.Sincos((sid + s.o.LonDeg - ra) * deg)
 	sinD, cosD := math.Sincos(dec * deg)
 	alt0 := math.Asin(s.sinPhi*sinD+s.cosPhi*cosD*cosH) / deg
@@ -276,7 +276,7 @@ func (s *searcher) cheap(t float64) float64 {
 // precise is the refinement misfit: interpolated geocentric quantities
 // through SPA's topocentric part.
 func (s *searcher) precise(t float64) float64 {
-	p := s.eph.geocentric(t).Topocentric(s.o)
+	p := s.eph.At(t).Topocentric(s.o)
 	return s.m.chi2(p.AzimuthDeg, p.AltitudeDeg)
 }
 
@@ -372,11 +372,12 @@ func (s *searcher) cheapGrid(lo, hi int, out []float64) {
 	for kb := lo; kb <= hi; kb += screenBlock {
 		ke := min(kb+screenBlock, hi)
 		ta, tb := s.gridS(kb), s.gridS(ke)
-		raA, decA, sidA := s.eph.raDecSid(ta)
-		raB, decB, sidB := s.eph.raDecSid(tb)
+		raA, decA, sidA := s.eph.RaDecSidereal(ta)
+		raB, decB, sidB := s.eph.RaDecSidereal(tb)
 		hA := sidA + s.o.LonDeg - raA
 		hB := sidB + s.o.LonDeg - raB
-		hB = unwrapNear(hB, hA+(tb-ta)*siderealRateDeg/86400)
+		ref := hA + (tb-ta)*spa.SiderealRateDegPerDay/86400
+		hB = ref + angle.Wrap180(hB-ref) // continue hA's turn, not a jump of 360°
 		sinDA, cosDA := math.Sincos(decA * deg)
 		sinDB, cosDB := math.Sincos(decB * deg)
 		steps := ke - kb

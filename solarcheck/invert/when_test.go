@@ -2,7 +2,6 @@ package invert
 
 import (
 	"errors"
-	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"math/rand/v2"
 	"testing"
@@ -24,27 +23,6 @@ func sunAt(lat, lon float64, t time.Time) spa.Position {
 func utcDay(t time.Time) (time.Time, time.Time) {
 	y, m, d := t.UTC().Date()
 	return DayRange(y, m, d, y, m, d, time.UTC)
-}
-
-// The interpolated ephemeris must reproduce full SPA far inside SPA's own
-// ±0.0003°.
-func TestEphemMatchesSPA(t *testing.T) {
-	t0 := time.Date(2023, 12, 30, 0, 0, 0, 0, time.UTC)
-	span := 400 * 24 * time.Hour
-	e := newEphem(t0, span.Seconds(), spa.DeltaT)
-	r := rand.New(rand.NewPCG(3, 4))
-	for i := 0; i < 3000; i++ {
-		s := r.Float64() * span.Seconds()
-		ts := t0.Add(time.Duration(s * 1e9))
-		o := spa.NewObserver(r.Float64()*180-90, r.Float64()*360-180, 0)
-		got := e.geocentric(s).Topocentric(o)
-		want := spa.At(ts, o, spa.DeltaT(ts))
-		dAz := math.Abs(angle.Wrap180(got.AzimuthDeg-want.AzimuthDeg)) * math.Cos(want.AltitudeDeg*deg)
-		if dAz > 1e-5 || math.Abs(got.AltitudeDeg-want.AltitudeDeg) > 1e-5 {
-			t.Fatalf("%s: %s at %.2f,%.2f: interpolated az %.7f alt %.7f, spa.At %.7f %.7f",
-				srcRT, ts, o.LatDeg, o.LonDeg, got.AzimuthDeg, got.AltitudeDeg, want.AzimuthDeg, want.AltitudeDeg)
-		}
-	}
 }
 
 type whenCase struct {

@@ -2,11 +2,11 @@ package invert
 
 import (
 	"fmt"
-	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"sort"
 	"time"
 
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
 )
 

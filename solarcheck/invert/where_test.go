@@ -2,12 +2,12 @@ package invert
 
 import (
 	"errors"
-	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"math/rand/v2"
 	"testing"
 	"time"
 
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
 )
 

@@ -32,8 +32,9 @@ package shadow
 import (
 	"errors"
 	"fmt"
-	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
+
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 )
 
 // ErrInvalid marks input that cannot describe a shadow (a negative height, a

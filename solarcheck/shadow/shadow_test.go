@@ -2,10 +2,11 @@ package shadow
 
 import (
 	"errors"
-	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 )
 
 func near(a, b, tol float64) bool { return math.Abs(a-b) <= tol }

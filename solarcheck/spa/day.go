@@ -1,9 +1,10 @@
 package spa
 
 import (
-	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"time"
+
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 )
 
 // Altitudes h0' of the day events (SPA Appendix A.2 and the usual

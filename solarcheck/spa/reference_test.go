@@ -3,13 +3,14 @@ package spa
 import (
 	"bufio"
 	"encoding/csv"
-	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"os"
 	"strconv"
 	"strings"
 	"testing"
 	"time"
+
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 )
 
 // refCase is one row of testdata/reference.csv.

@@ -1,9 +1,10 @@
 package spa
 
 import (
-	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"time"
+
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 )
 
 // Default atmosphere for the refraction correction (SPA Eq. 42): the

@@ -1,10 +1,11 @@
 package spa
 
 import (
-	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"testing"
 	"time"
+
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 )
 
 // spaExample is the example of SPA report Table A5.1 (NREL/TP-560-34302).
