@@ -24,7 +24,7 @@ func benchFolder(b *testing.B, n int) []string {
 		b.Fatal(benchErr)
 	}
 	dir := b.TempDir()
-	if err := benchset.Write(dir, n, benchBase); err != nil {
+	if err := benchset.Write(dir, n, benchBase, nil); err != nil {
 		b.Fatal(err)
 	}
 	files, _ := filepath.Glob(filepath.Join(dir, "*.jpg"))

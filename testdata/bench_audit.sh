@@ -6,7 +6,9 @@
 #   2. a single-threaded Go crypto/sha256 pass over the files (the floor:
 #      every byte must be hashed);
 #   3. sha256sum over the files;
-#   4. gnomon audit with thumbnails;
+#   4. gnomon audit with thumbnails (from the embedded previews);
+#   5. the thumbnail cost when a photo has no usable preview (a full decode),
+#      per photo, over 50 photos without one;
 # and the peak resident memory of each audit (GNU time), plus the audit's
 # peak memory at N/4 to show whether it grows with the number of photos.
 # Usage: testdata/bench_audit.sh [N] (default 2000). Needs go, sha256sum and
@@ -21,9 +23,9 @@ trap 'rm -rf "$tmp"' EXIT
 cd "$root"
 go build -o "$tmp/gnomon" ./cmd/gnomon
 go build -o "$tmp/hashpass" ./internal/benchtools/hashpass
-go run ./exifread/internal/benchset/gen -n "$n" -out "$tmp/photos"
-mkdir -p "$tmp/quarter"
-go run ./exifread/internal/benchset/gen -n "$((n / 4))" -out "$tmp/quarter"
+go run ./exifread/internal/benchset/gen -thumb -n "$n" -out "$tmp/photos"
+go run ./exifread/internal/benchset/gen -thumb -n "$((n / 4))" -out "$tmp/quarter"
+go run ./exifread/internal/benchset/gen -n 50 -out "$tmp/nopreview"
 mb=$(du -sm "$tmp/photos" | cut -f1)
 echo "$(go version); $(nproc) cores; $n files, $mb MB"
 cat "$tmp"/photos/* > /dev/null
@@ -35,6 +37,8 @@ t_audit=$(secs "$tmp/gnomon" audit "$tmp/photos" --out "$tmp/r1" --quiet --thumb
 t_hash=$(secs "$tmp/hashpass" "$tmp/photos")
 t_sum=$(secs sh -c "find '$tmp/photos' -type f -print0 | xargs -0 sha256sum")
 t_thumb=$(secs "$tmp/gnomon" audit "$tmp/photos" --out "$tmp/r2" --quiet)
+t_decode=$(secs "$tmp/gnomon" audit "$tmp/nopreview" --out "$tmp/r5" --quiet)
+t_nodecode=$(secs "$tmp/gnomon" audit "$tmp/nopreview" --out "$tmp/r6" --quiet --thumbnails=false)
 m_full=$(peak "$tmp/gnomon" audit "$tmp/photos" --out "$tmp/r3" --quiet --thumbnails=false)
 m_quarter=$(peak "$tmp/gnomon" audit "$tmp/quarter" --out "$tmp/r4" --quiet --thumbnails=false)
 
@@ -42,5 +46,6 @@ printf 'single-threaded crypto/sha256 pass: %8.2f s  (%.0f MB/s)\n' "$t_hash" "$
 printf 'sha256sum:                          %8.2f s  (%.2fx the hash pass)\n' "$t_sum" "$(echo "$t_sum/$t_hash" | bc -l)"
 printf 'gnomon audit, no thumbnails:        %8.2f s  (%.2fx the hash pass)\n' "$t_audit" "$(echo "$t_audit/$t_hash" | bc -l)"
 printf 'gnomon audit, with thumbnails:      %8.2f s  (%.2fx the hash pass)\n' "$t_thumb" "$(echo "$t_thumb/$t_hash" | bc -l)"
+printf 'thumbnail without a preview (full decode): %.0f ms per photo (50 photos, 2 workers)\n' "$(echo "($t_decode-$t_nodecode)*1000/50" | bc -l)"
 printf 'peak RSS, audit of %d files:  %6.0f MB\n' "$n" "$(echo "$m_full/1024" | bc -l)"
 printf 'peak RSS, audit of %d files:  %6.0f MB\n' "$((n / 4))" "$(echo "$m_quarter/1024" | bc -l)"

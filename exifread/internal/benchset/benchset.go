@@ -38,7 +38,8 @@ func Base(w, h int) ([]byte, error) {
 
 // Write writes n photos named IMG_0001.jpg … into dir, each the base picture
 // with its own EXIF (times a minute apart, a GPS track, exposure values).
-func Write(dir string, n int, base []byte) error {
+// thumb, when not nil, is embedded as the IFD1 preview, as cameras do.
+func Write(dir string, n int, base, thumb []byte) error {
 	for i := 0; i < n; i++ {
 		mins := i
 		dt := fmt.Sprintf("2024:06:21 %02d:%02d:%02d", 8+mins/60%12, mins%60, i%60)
@@ -49,7 +50,7 @@ func Write(dir string, n int, base []byte) error {
 			SubSecOriginal: "120", OffsetTimeOriginal: "+02:00", OffsetTimeDigitized: "+02:00", OffsetTime: "+02:00",
 			ExposureTime: exifwrite.Rational{Num: 1, Den: 250}, FNumber: exifwrite.Rational{Num: 8, Den: 1},
 			ISO: 100, Flash: exifwrite.Ptr(16), FocalLength: exifwrite.Rational{Num: 35, Den: 1}, FocalLength35: 35,
-			PixelWidth: 4000, PixelHeight: 3000,
+			PixelWidth: 4000, PixelHeight: 3000, Thumbnail: thumb,
 			GPS: &exifwrite.GPS{LatDeg: 46.5 + float64(i)*1e-4, LonDeg: 6.6 + float64(i)*1e-4, AltitudeM: exifwrite.Ptr(400.0),
 				DateStamp: "2024:06:21", TimeStamp: [3]exifwrite.Rational{{Num: uint32(6 + mins/60%12), Den: 1}, {Num: uint32(mins % 60), Den: 1}, {Num: uint32(i % 60), Den: 1}},
 				ImgDirection: exifwrite.Rational{Num: uint32(i % 360), Den: 1}, ImgDirectionRef: "T", MapDatum: "WGS-84"},

@@ -1,4 +1,4 @@
-// Command gen writes the benchmark photo folder: go run ./exifread/internal/benchset/gen -n 1000 -out DIR
+// Command gen writes the benchmark photo folder: go run ./exifread/internal/benchset/gen -n 1000 -out DIR [-thumb]
 package main
 
 import (
@@ -14,6 +14,7 @@ func main() {
 	w := flag.Int("w", 3000, "width in pixels")
 	h := flag.Int("h", 2000, "height in pixels")
 	out := flag.String("out", "", "output folder (created)")
+	thumb := flag.Bool("thumb", false, "embed a 160x107 preview in IFD1, as cameras do")
 	flag.Parse()
 	if *out == "" {
 		fmt.Fprintln(os.Stderr, "gen: -out is required")
@@ -28,7 +29,14 @@ func main() {
 		fmt.Fprintln(os.Stderr, "gen:", err)
 		os.Exit(1)
 	}
-	if err := benchset.Write(*out, *n, base); err != nil {
+	var preview []byte
+	if *thumb {
+		if preview, err = benchset.Base(160, 107); err != nil {
+			fmt.Fprintln(os.Stderr, "gen:", err)
+			os.Exit(1)
+		}
+	}
+	if err := benchset.Write(*out, *n, base, preview); err != nil {
 		fmt.Fprintln(os.Stderr, "gen:", err)
 		os.Exit(1)
 	}
