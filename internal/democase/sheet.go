@@ -4,13 +4,13 @@ import (
 	"bytes"
 	"encoding/csv"
 	"fmt"
-	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"math"
 	"math/rand/v2"
 	"os"
 	"strconv"
 
 	"github.com/gnomon-forensics/gnomon/exifread/exifwrite"
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 )
 
 // sheetColumns is the header of measurements.csv, in the order of the
