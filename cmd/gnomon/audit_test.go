@@ -81,21 +81,13 @@ func treeState(t *testing.T, dir string) map[string]string {
 	return m
 }
 
-func runCmd(t *testing.T, getenv map[string]string, args ...string) (int, string, string) {
-	t.Helper()
-	var out, errb bytes.Buffer
-	e := env{stdin: strings.NewReader(""), stdout: &out, stderr: &errb, getenv: func(k string) string { return getenv[k] }}
-	code := run(e, args)
-	return code, out.String(), errb.String()
-}
-
 // TestAuditLeavesEvidenceUntouched hashes the whole input tree (contents,
 // modes and modification times) before and after an audit.
 func TestAuditLeavesEvidenceUntouched(t *testing.T) {
 	dir := makeEvidence(t)
 	before := treeState(t, dir)
 	out := filepath.Join(t.TempDir(), "report")
-	if code, _, stderr := runCmd(t, nil, "audit", dir, "--out", out, "--quiet"); code != 0 {
+	if code, _, stderr := captureRun("audit", dir, "--out", out, "--quiet"); code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
 	after := treeState(t, dir)
@@ -123,7 +115,7 @@ func TestAuditRerunIdentical(t *testing.T) {
 	envs := map[string]string{"SOURCE_DATE_EPOCH": "1767225600"}
 	var first map[string][]byte
 	for i := 0; i < 2; i++ {
-		if code, _, stderr := runCmd(t, envs, "audit", dir, "--out", out, "--quiet", "-j", []string{"1", "2"}[i]); code != 0 {
+		if code, _, stderr := captureRunEnv(envs, "audit", dir, "--out", out, "--quiet", "-j", []string{"1", "2"}[i]); code != 0 {
 			t.Fatalf("run %d: exit %d: %s", i, code, stderr)
 		}
 		got := map[string][]byte{}
@@ -167,7 +159,7 @@ func dropCommandLine(t *testing.T, b []byte) []byte {
 func TestAuditRefusesOutputInsideEvidence(t *testing.T) {
 	dir := makeEvidence(t)
 	before := treeState(t, dir)
-	code, _, stderr := runCmd(t, nil, "audit", dir, "--out", filepath.Join(dir, "sub", "report"), "--quiet")
+	code, _, stderr := captureRun("audit", dir, "--out", filepath.Join(dir, "sub", "report"), "--quiet")
 	if code != exitUsage || !strings.Contains(stderr, "inside input") {
 		t.Fatalf("exit %d, stderr %q; want exit 2 naming the input", code, stderr)
 	}
@@ -189,7 +181,7 @@ func TestAuditUsage(t *testing.T) {
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			code, _, stderr := runCmd(t, nil, c.args...)
+			code, _, stderr := captureRun(c.args...)
 			if code != c.want {
 				t.Fatalf("exit %d, want %d; stderr %q", code, c.want, stderr)
 			}
@@ -205,7 +197,7 @@ func TestAuditUsage(t *testing.T) {
 func TestAuditAccountsForEveryFile(t *testing.T) {
 	dir := makeEvidence(t)
 	out := filepath.Join(t.TempDir(), "report")
-	if code, _, stderr := runCmd(t, nil, "audit", dir, "--out", out, "--quiet", "--formats", "json"); code != 0 {
+	if code, _, stderr := captureRun("audit", dir, "--out", out, "--quiet", "--formats", "json"); code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
 	b, err := os.ReadFile(filepath.Join(out, "report.json"))

@@ -22,7 +22,7 @@ func TestDemoFindsEveryPlantedFault(t *testing.T) {
 		t.Fatal(err)
 	}
 	out := filepath.Join(t.TempDir(), "report")
-	code, _, stderr := runCmd(t, nil, "audit", c.PhotosDir, "--shadows", c.SheetPath, "--out", out, "--quiet", "--formats", "json")
+	code, _, stderr := captureRun("audit", c.PhotosDir, "--shadows", c.SheetPath, "--out", out, "--quiet", "--formats", "json")
 	if code != exitOK {
 		t.Fatalf("audit exit %d: %s", code, stderr)
 	}

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"encoding/json"
 	"os"
 	"path/filepath"
@@ -9,16 +8,10 @@ import (
 	"testing"
 )
 
-func runMetaCmd(args ...string) (code int, stdout, stderr string) {
-	var o, e bytes.Buffer
-	code = run(env{stdin: strings.NewReader(""), stdout: &o, stderr: &e, getenv: func(string) string { return "" }}, args)
-	return code, o.String(), e.String()
-}
-
 const metaFixtureDir = "../../exifread/testdata/fixtures"
 
 func TestMetaJSON(t *testing.T) {
-	code, out, errOut := runMetaCmd("meta", "--json", filepath.Join(metaFixtureDir, "jpeg_full_mm.jpg"), filepath.Join(metaFixtureDir, "heif_mdat.heic"), "does-not-exist.jpg")
+	code, out, errOut := captureRun("meta", "--json", filepath.Join(metaFixtureDir, "jpeg_full_mm.jpg"), filepath.Join(metaFixtureDir, "heif_mdat.heic"), "does-not-exist.jpg")
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, errOut)
 	}
@@ -62,7 +55,7 @@ func TestMetaJSON(t *testing.T) {
 }
 
 func TestMetaText(t *testing.T) {
-	code, out, _ := runMetaCmd("meta", filepath.Join(metaFixtureDir, "jpeg_le_xmp.jpg"))
+	code, out, _ := captureRun("meta", filepath.Join(metaFixtureDir, "jpeg_le_xmp.jpg"))
 	if code != exitOK {
 		t.Fatalf("exit %d", code)
 	}
@@ -87,7 +80,7 @@ func TestMetaExitCodes(t *testing.T) {
 		{"a damaged file still opens", []string{"meta", "meta.go"}, exitOK},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			if code, _, _ := runMetaCmd(tc.args...); code != tc.code {
+			if code, _, _ := captureRun(tc.args...); code != tc.code {
 				t.Errorf("exit %d, want %d", code, tc.code)
 			}
 		})
@@ -115,7 +108,7 @@ func TestMetaWalk(t *testing.T) {
 	must(os.WriteFile(filepath.Join(outside, "secret.png"), data, 0o644))
 	must(os.Symlink(filepath.Join(outside, "secret.png"), filepath.Join(dir, "link.png")))
 	must(os.Symlink(outside, filepath.Join(dir, "linkdir")))
-	code, out, errOut := runMetaCmd("meta", "--json", "--no-hash", dir)
+	code, out, errOut := captureRun("meta", "--json", "--no-hash", dir)
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, errOut)
 	}
@@ -136,7 +129,7 @@ func TestMetaWalk(t *testing.T) {
 	}
 	// A symlink given as an argument is the user's explicit choice: walked.
 	must(os.Symlink(dir, filepath.Join(outside, "tree")))
-	code, out, _ = runMetaCmd("meta", "--json", "--no-hash", filepath.Join(outside, "tree"))
+	code, out, _ = captureRun("meta", "--json", "--no-hash", filepath.Join(outside, "tree"))
 	if err := json.Unmarshal([]byte(out), &recs); err != nil || code != exitOK || len(recs) != 2 {
 		t.Errorf("explicit symlinked folder: exit %d, %d records", code, len(recs))
 	}

@@ -1,19 +1,12 @@
 package main
 
 import (
-	"bytes"
 	"encoding/json"
 	"math"
 	"strings"
 	"testing"
 	_ "time/tzdata" // zones for --zone cases, whatever the machine has installed
 )
-
-func runCaptured(args ...string) (code int, stdout, stderr string) {
-	var o, e bytes.Buffer
-	code = run(env{stdin: strings.NewReader(""), stdout: &o, stderr: &e, getenv: func(string) string { return "" }}, args)
-	return code, o.String(), e.String()
-}
 
 // spaExampleArgs is the SPA report Table A5.1 example.
 var spaExampleArgs = []string{"sun", "--time", "2003-10-17T12:30:30-07:00", "--lat", "39.742476", "--lon", "-105.1786",
@@ -50,7 +43,7 @@ func TestSunExitCodes(t *testing.T) {
 		{"extra argument", with("now"), exitUsage, "unexpected argument"},
 	}
 	for _, tc := range tests {
-		code, _, stderr := runCaptured(tc.args...)
+		code, _, stderr := captureRun(tc.args...)
 		if code != tc.want {
 			t.Errorf("%s: exit %d, want %d; stderr:\n%s", tc.name, code, tc.want, stderr)
 			continue
@@ -69,7 +62,7 @@ func TestSunExitCodes(t *testing.T) {
 
 func sunJSONOf(t *testing.T, args ...string) map[string]any {
 	t.Helper()
-	code, stdout, stderr := runCaptured(append(args, "--json")...)
+	code, stdout, stderr := captureRun(append(args, "--json")...)
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
@@ -178,7 +171,7 @@ func TestSunCalendarsAndZones(t *testing.T) {
 }
 
 func TestSunTable(t *testing.T) {
-	code, stdout, stderr := runCaptured(spaExampleArgs...)
+	code, stdout, stderr := captureRun(spaExampleArgs...)
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
@@ -202,7 +195,7 @@ func FuzzSunTime(f *testing.F) {
 		f.Add(s, "julian")
 	}
 	f.Fuzz(func(t *testing.T, tm, cal string) {
-		code, _, stderr := runCaptured("sun", "--time", tm, "--calendar", cal, "--lat", "45", "--lon", "7", "--json")
+		code, _, stderr := captureRun("sun", "--time", tm, "--calendar", cal, "--lat", "45", "--lon", "7", "--json")
 		if code != exitOK && code != exitUsage {
 			t.Fatalf("--time %q --calendar %q: exit %d: %s", tm, cal, code, stderr)
 		}

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"encoding/json"
 	"fmt"
 	"strings"
@@ -16,12 +15,6 @@ import (
 const srcSPART = "round trip through spa (itself checked against the SPA report and astropy)"
 
 // captureRun runs gnomon in-process and returns its exit status and output.
-func captureRun(args ...string) (code int, stdout, stderr string) {
-	var o, e bytes.Buffer
-	code = run(env{stdin: strings.NewReader(""), stdout: &o, stderr: &e, getenv: func(string) string { return "" }}, args)
-	return code, o.String(), e.String()
-}
-
 func TestWhenExitCodes(t *testing.T) {
 	place := []string{"--lat", "48.85", "--lon", "2.35"}
 	with := func(extra ...string) []string { return append(append([]string{"when"}, place...), extra...) }
@@ -66,13 +59,7 @@ func TestWhenExitCodes(t *testing.T) {
 			continue
 		}
 		if tc.want == exitUsage {
-			first, rest, _ := strings.Cut(stderr, "\n")
-			if !strings.Contains(first, tc.reason) {
-				t.Errorf("%s: first stderr line %q lacks %q", tc.name, first, tc.reason)
-			}
-			if !strings.Contains(rest, "usage: gnomon when") {
-				t.Errorf("%s: no usage after the reason", tc.name)
-			}
+			checkUsageError(t, tc.name, "when", stderr, tc.reason)
 		}
 	}
 }

@@ -39,13 +39,7 @@ func TestWhereExitCodes(t *testing.T) {
 			continue
 		}
 		if tc.want == exitUsage {
-			first, rest, _ := strings.Cut(stderr, "\n")
-			if !strings.Contains(first, tc.reason) {
-				t.Errorf("%s: first stderr line %q lacks %q", tc.name, first, tc.reason)
-			}
-			if !strings.Contains(rest, "usage: gnomon where") {
-				t.Errorf("%s: no usage after the reason", tc.name)
-			}
+			checkUsageError(t, tc.name, "where", stderr, tc.reason)
 		}
 	}
 }
