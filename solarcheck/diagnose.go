@@ -198,10 +198,18 @@ func (x *Examiner) hypotheses(f *Finding, iv Interval) []hypothesis {
 			continue
 		}
 		home := placeOff + int(s)
-		if !inUse[home] {
+		zones := inUse[home]
+		if len(zones) == 0 {
 			continue // no zone kept that offset on that day
 		}
-		hs = append(hs, hypothesis{ZoneSlip, s, fmt.Sprintf("the time of a zone at %s", offsetLabel(home))})
+		label := fmt.Sprintf("the time of a zone at %s", offsetLabel(home))
+		if len(zones) > 3 {
+			zones = zones[:3]
+		}
+		if !strings.HasPrefix(zones[0], "Etc/") {
+			label += " (e.g. " + strings.Join(zones, ", ") + ")"
+		}
+		hs = append(hs, hypothesis{ZoneSlip, s, label})
 	}
 	return hs
 }

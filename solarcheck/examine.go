@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sort"
+	"strings"
 	"sync"
 	"time"
 
@@ -22,11 +24,12 @@ type Examiner struct {
 	// deltaT overrides ΔT (seconds) when non-nil; otherwise spa.DeltaT.
 	deltaT *float64
 
-	// offsetsMu guards offsetsByDay, the UTC offsets in use somewhere in
-	// the world on a day (from every zone of the tz database), which the
-	// diagnosis needs to name zone steps that really exist.
+	// offsetsMu guards offsetsByDay: for a UTC day, the offsets in use
+	// somewhere in the world (from every zone of the tz database) with the
+	// zones that kept each, which the diagnosis needs to name zone steps
+	// that really exist.
 	offsetsMu    sync.Mutex
-	offsetsByDay map[string]map[int]bool
+	offsetsByDay map[string]map[int][]string
 }
 
 // Options configure an Examiner.
@@ -44,27 +47,34 @@ func NewExaminer(o Options) *Examiner {
 	if z == nil {
 		z = zone.NewFinder(nil)
 	}
-	return &Examiner{zones: z, deltaT: o.DeltaTSec, offsetsByDay: map[string]map[int]bool{}}
+	return &Examiner{zones: z, deltaT: o.DeltaTSec, offsetsByDay: map[string]map[int][]string{}}
 }
 
-// offsetsInUse returns the set of UTC offsets (seconds) that some zone of
-// the tz database kept at t. Built once per UTC day and cached.
-func (x *Examiner) offsetsInUse(t time.Time) map[int]bool {
+// offsetsInUse returns the UTC offsets (seconds) that some zone of the tz
+// database kept at t, each with the names of those zones (sorted, regional
+// zones before the Etc/ ones). Built once per UTC day and cached.
+func (x *Examiner) offsetsInUse(t time.Time) map[int][]string {
 	day := t.UTC().Format(time.DateOnly)
 	x.offsetsMu.Lock()
 	defer x.offsetsMu.Unlock()
 	if m, ok := x.offsetsByDay[day]; ok {
 		return m
 	}
-	m := map[int]bool{}
+	m := map[int][]string{}
 	names, err := x.zones.DB().Names()
 	if err == nil {
 		for _, n := range names {
 			if loc, err := x.zones.DB().Load(n); err == nil {
 				_, off := t.In(loc).Zone()
-				m[off] = true
+				m[off] = append(m[off], n)
 			}
 		}
+	}
+	for off, ns := range m {
+		sort.SliceStable(ns, func(i, j int) bool {
+			return !strings.HasPrefix(ns[i], "Etc/") && strings.HasPrefix(ns[j], "Etc/")
+		})
+		m[off] = ns
 	}
 	x.offsetsByDay[day] = m
 	return m
