@@ -25,6 +25,7 @@ type hypothesis struct {
 // the witnesses give (tested against the competing explanations), then the
 // light, then nothing.
 func diagnose(f *Finding, x *Examiner) {
+	defer func() { f.Explanation += f.placeNote }()
 	iv, source := timeEvidence(f)
 
 	if c, ok := f.Check(KindShadowPlace); ok && c.Status == Conflicts {

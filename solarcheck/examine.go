@@ -128,6 +128,10 @@ func (x *Examiner) Examine(p Photo) Finding {
 			f.Explanation += " (" + wallErr.Error() + ")"
 		}
 		f.Explanation += "; there is no claim to check."
+		if len(rec.Warnings) > 0 {
+			f.Explanation += " The reader noted: " + strings.Join(rec.Warnings, "; ") + "."
+		}
+		f.Explanation += f.placeNote
 		return f
 	}
 
@@ -241,6 +245,9 @@ func captureWall(rec exifread.Record) (zone.Wall, string, error) {
 // examiner's lat/lon from the sheet.
 func (x *Examiner) place(f *Finding, p Photo) {
 	g := p.Record.GPS
+	if g.Position != nil && !g.Position.Valid {
+		f.placeNote = fmt.Sprintf(" The GPS position %q was not used: %s.", g.Position.Raw, g.Position.Invalid)
+	}
 	if g.Position != nil && g.Position.Valid && g.Position.LatDeg != nil && g.Position.LonDeg != nil {
 		f.LatDeg, f.LonDeg, f.HasPlace, f.PlaceSource = *g.Position.LatDeg, *g.Position.LonDeg, true, "gps"
 		if g.AltitudeM != nil && g.AltitudeM.Valid && !math.IsNaN(g.AltitudeM.Value) {

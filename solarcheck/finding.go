@@ -168,6 +168,7 @@ type Finding struct {
 	seasonOff    bool      // shadows fit another season only
 	lightOff     bool      // the exposure conflicts with the light at the claim
 	stepSec      float64   // the step (zone, DST, 12 h) the verdict names; 0 for none
+	placeNote    string    // why a GPS position in the file was not used, as a sentence
 }
 
 // check appends c to f's checks.

@@ -32,6 +32,10 @@ var ErrNotRegular = errors.New("not a regular file")
 // folder (or cannot be resolved): it is not followed.
 var ErrLinkOutside = errors.New("symbolic link leading outside the audited folder; not followed")
 
+// ErrLinkBroken marks a symbolic link that loops or points to nothing: it
+// has no target to read.
+var ErrLinkBroken = errors.New("symbolic link that loops or points to nothing; not followed")
+
 // ErrLinkDir marks a symbolic link to a folder: folders are reached through
 // their real paths only, so that no loop can form.
 var ErrLinkDir = errors.New("symbolic link to a folder; not followed (its contents are audited through their real path)")
@@ -116,7 +120,7 @@ func walkOne(in string) ([]Entry, error) {
 func checkLink(p, root string) error {
 	target, err := filepath.EvalSymlinks(p)
 	if err != nil {
-		return fmt.Errorf("%w: %v", ErrLinkOutside, err)
+		return fmt.Errorf("%w: %v", ErrLinkBroken, err)
 	}
 	if !within(target, root) {
 		return ErrLinkOutside

@@ -52,7 +52,7 @@ func TestWalk(t *testing.T) {
 		{"a/b/loop", ErrLinkDir, ""},
 		{"escape.txt", ErrLinkOutside, ""},
 		{"alias.jpg", nil, ""},
-		{"dangling.jpg", ErrLinkOutside, ""},
+		{"dangling.jpg", ErrLinkBroken, ""},
 		{"pipe", ErrNotRegular, ""},
 	}
 	for _, c := range cases {
