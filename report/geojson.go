@@ -82,7 +82,7 @@ func WriteGeoJSON(w io.Writer, a *Audit) error {
 			fc.Features = append(fc.Features, f)
 		}
 	}
-	var e jsonEncoder
+	e := jsonEncoder{w: w} // streams: see jsonFlushBytes
 	if err := e.value(reflect.ValueOf(fc), 0); err != nil {
 		return fmt.Errorf("report: encode GeoJSON: %w", err)
 	}

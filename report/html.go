@@ -29,6 +29,7 @@ var pageTemplate = template.Must(template.New("page").Funcs(template.FuncMap{
 	"optd":  fmtOptOffset,
 	"style": verdictStyleOf,
 	"place": fmtPlace,
+	"sub":   func(a, b int) int { return a - b },
 }).Parse(htmlSource))
 
 // verdictStyle is how the HTML page shows one verdict: our own label, a
@@ -98,6 +99,70 @@ type htmlPage struct {
 	// Cards yields one card at a time, so that the charts of a large batch
 	// are built while the page streams out rather than all held at once.
 	Cards iter.Seq[cardView]
+	// Carded is how many photos have a card (see Carded); Left counts the
+	// photos without one per verdict, and LeftRows lists them in tally order.
+	Carded   int
+	MaxCards int
+	Left     map[string]int
+	LeftRows []tallyRow
+}
+
+// MaxCards is the most photo cards report.html shows. A card with its sky
+// chart is several kilobytes of page; tens of thousands of them make a page
+// no browser opens comfortably and no examiner reads. report.json and
+// report.csv always hold every photo.
+const MaxCards = 1000
+
+// Carded reports, for each photo in the order given, whether report.html
+// gives it a card. Every photo gets one when there are at most MaxCards.
+// Otherwise the cards go first to the photos whose verdict calls for
+// attention (anything but consistent and unverified), then to the others;
+// within each of those two groups the verdicts take turns, each in path
+// order, so that a rare finding is never crowded out by a common one. The
+// choice depends only on the photos' order and verdicts, so reruns choose
+// alike.
+func Carded(photos []Photo) []bool {
+	out := make([]bool, len(photos))
+	if len(photos) <= MaxCards {
+		for i := range out {
+			out[i] = true
+		}
+		return out
+	}
+	byVerdict := map[string][]int{}
+	var order []string
+	for i, p := range photos {
+		if _, ok := byVerdict[p.Verdict]; !ok {
+			order = append(order, p.Verdict)
+		}
+		byVerdict[p.Verdict] = append(byVerdict[p.Verdict], i)
+	}
+	slices.Sort(order)
+	var flagged, calm []string
+	for _, v := range order {
+		if v == "consistent" || v == "unverified" {
+			calm = append(calm, v)
+		} else {
+			flagged = append(flagged, v)
+		}
+	}
+	left := MaxCards
+	for _, group := range [][]string{flagged, calm} {
+		next := map[string]int{}
+		for left > 0 {
+			took := false
+			for _, v := range group {
+				if k := next[v]; k < len(byVerdict[v]) && left > 0 {
+					out[byVerdict[v][k]] = true
+					next[v], left, took = k+1, left-1, true
+				}
+			}
+			if !took {
+				break
+			}
+		}
+	}
+	return out
 }
 
 type tallyRow struct {
@@ -123,7 +188,7 @@ type cardView struct {
 }
 
 func buildPage(a *Audit) (htmlPage, error) {
-	pg := htmlPage{A: a, Total: len(a.Photos)}
+	pg := htmlPage{A: a, Total: len(a.Photos), MaxCards: MaxCards, Left: map[string]int{}}
 	var bg strings.Builder
 	if err := pageTemplate.ExecuteTemplate(&bg, "skybg", skyStatic()); err != nil {
 		return pg, err
@@ -162,8 +227,24 @@ func buildPage(a *Audit) (htmlPage, error) {
 	for _, c := range a.Cameras {
 		pg.Cameras = append(pg.Cameras, buildClock(c))
 	}
+	carded := Carded(a.Photos)
+	for i, p := range a.Photos {
+		if carded[i] {
+			pg.Carded++
+		} else {
+			pg.Left[p.Verdict]++
+		}
+	}
+	for _, t := range pg.Tally {
+		if n := pg.Left[t.Style.Code]; n > 0 {
+			pg.LeftRows = append(pg.LeftRows, tallyRow{t.Style, n})
+		}
+	}
 	pg.Cards = func(yield func(cardView) bool) {
 		for i, p := range a.Photos {
+			if !carded[i] {
+				continue
+			}
 			if !yield(cardView{P: p, Index: i + 1, Style: verdictStyleOf(p.Verdict),
 				Thumb: safeThumb(p.Thumbnail), Sky: buildSky(p)}) {
 				return

@@ -31,10 +31,15 @@ var ErrInvalidKey = errors.New("map key is not valid UTF-8")
 // reordering the caller's slices.
 func sorted(a *Audit) *Audit {
 	c := *a
-	c.Photos = slices.Clone(a.Photos)
-	slices.SortStableFunc(c.Photos, func(x, y Photo) int {
+	byPath := func(x, y Photo) int {
 		return cmp.Or(strings.Compare(x.Path, y.Path), strings.Compare(x.Root, y.Root))
-	})
+	}
+	// The audit hands over its photos sorted already; a large batch is not
+	// copied once per report then.
+	if !slices.IsSortedFunc(a.Photos, byPath) {
+		c.Photos = slices.Clone(a.Photos)
+		slices.SortStableFunc(c.Photos, byPath)
+	}
 	c.Cameras = slices.Clone(a.Cameras)
 	slices.SortStableFunc(c.Cameras, func(x, y Camera) int { return strings.Compare(x.ID, y.ID) })
 	return &c
@@ -53,7 +58,7 @@ func WriteJSON(w io.Writer, a *Audit) error {
 	if c.Schema == "" {
 		c.Schema = SchemaID
 	}
-	var e jsonEncoder
+	e := jsonEncoder{w: w}
 	if err := e.value(reflect.ValueOf(c).Elem(), 0); err != nil {
 		return fmt.Errorf("report: encode JSON: %w", err)
 	}
@@ -64,9 +69,15 @@ func WriteJSON(w io.Writer, a *Audit) error {
 	return nil
 }
 
+// jsonFlushBytes is how much encoded JSON is held before it is passed on:
+// the document of 100,000 photos is about 290 MB of text, which must stream
+// out rather than sit in memory.
+const jsonFlushBytes = 64 << 10
+
 // jsonEncoder writes a Go value as indented JSON, following the struct tags
 // (name, "-", omitempty) the way encoding/json does, plus the sibling rules.
 type jsonEncoder struct {
+	w       io.Writer // when set, buf is written out at array elements once over jsonFlushBytes
 	buf     bytes.Buffer
 	scratch []byte
 	fields  map[reflect.Type][]jsonField // cache: a batch has many photos of one type
@@ -226,6 +237,12 @@ func (e *jsonEncoder) value(v reflect.Value, depth int) error {
 			e.newline(depth + 1)
 			if err := e.value(v.Index(i), depth+1); err != nil {
 				return fmt.Errorf("[%d]: %w", i, err)
+			}
+			if e.w != nil && e.buf.Len() > jsonFlushBytes {
+				if _, err := e.w.Write(e.buf.Bytes()); err != nil {
+					return fmt.Errorf("write: %w", err)
+				}
+				e.buf.Reset()
 			}
 		}
 		e.newline(depth)
