@@ -1,11 +1,15 @@
 package audit
 
 import (
+	"context"
 	"fmt"
 	"math"
+	"runtime"
 	"sort"
+	"sync"
 	"time"
 
+	"github.com/gnomon-forensics/gnomon/exifread"
 	"github.com/gnomon-forensics/gnomon/report"
 	"github.com/gnomon-forensics/gnomon/solarcheck"
 	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
@@ -29,8 +33,8 @@ type Header struct {
 }
 
 // Document builds the report document from a finished run. withSunPaths
-// adds each photo's day of sun positions (for the HTML charts only; it is
-// not part of the JSON).
+// adds a day of sun positions to each photo that report.html gives a card
+// (report.Carded; for the HTML charts only, not part of the JSON).
 func Document(res *Result, h Header, x *solarcheck.Examiner, withSunPaths bool) *report.Audit {
 	a := &report.Audit{
 		Schema: report.SchemaID,
@@ -54,23 +58,28 @@ func Document(res *Result, h Header, x *solarcheck.Examiner, withSunPaths bool) 
 		Photos:  make([]report.Photo, 0, len(res.Items)),
 		Cameras: []report.Camera{},
 	}
+	item := make([]int, 0, len(res.Items)) // item[k]: the item behind a.Photos[k]
 	for i := range res.Items {
 		p := photo(&res.Items[i])
-		if withSunPaths {
-			for _, s := range x.SunPath(&res.Items[i].Finding) {
-				p.SunPath = append(p.SunPath, sunAt(s))
-			}
-		}
 		a.Photos = append(a.Photos, p)
+		item = append(item, i)
 		a.Run.Counts.ByVerdict[p.Verdict]++
 	}
 	a.Run.Counts.Files = len(a.Photos)
-	sort.SliceStable(a.Photos, func(i, j int) bool {
-		if a.Photos[i].Path != a.Photos[j].Path {
-			return a.Photos[i].Path < a.Photos[j].Path
+	sort.Stable(byPhotoPath{a.Photos, item})
+	if withSunPaths {
+		// Only the photos that get a card on the page are charted: a day
+		// of sun positions for each of 100,000 photos would be hundreds of
+		// megabytes that the page does not show.
+		for k, carded := range report.Carded(a.Photos) {
+			if !carded {
+				continue
+			}
+			for _, s := range x.SunPath(&res.Items[item[k]].Finding) {
+				a.Photos[k].SunPath = append(a.Photos[k].SunPath, sunAt(s))
+			}
 		}
-		return a.Photos[i].Root < a.Photos[j].Root
-	})
+	}
 	byPath := map[string]*solarcheck.Finding{}
 	for i := range res.Items {
 		byPath[res.Items[i].Finding.Path] = &res.Items[i].Finding
@@ -245,4 +254,79 @@ func nonNil(s []string) []string {
 		return []string{}
 	}
 	return s
+}
+
+// byPhotoPath sorts photos by path, then root, keeping item in step.
+type byPhotoPath struct {
+	p    []report.Photo
+	item []int
+}
+
+func (b byPhotoPath) Len() int { return len(b.p) }
+func (b byPhotoPath) Less(i, j int) bool {
+	if b.p[i].Path != b.p[j].Path {
+		return b.p[i].Path < b.p[j].Path
+	}
+	return b.p[i].Root < b.p[j].Root
+}
+func (b byPhotoPath) Swap(i, j int) {
+	b.p[i], b.p[j] = b.p[j], b.p[i]
+	b.item[i], b.item[j] = b.item[j], b.item[i]
+}
+
+// LateThumbnails writes the thumbnails of the photos that report.html gives
+// a card (report.Carded) and that have none yet, after the run: on a batch
+// larger than report.MaxCards the command passes no Options.Thumbs to Run,
+// since which photos get a card is known only once every verdict is, and a
+// thumbnail per photo of 100,000 would fill the report folder with images
+// no page shows. Each file is read again (metadata and preview only, not
+// hashed) by up to workers goroutines; thumbs is Options.Thumbs. It stops
+// early, returning ctx.Err(), when ctx is cancelled.
+func LateThumbnails(ctx context.Context, res *Result, a *report.Audit, workers int, read exifread.Options, thumbs func(int, Entry, *exifread.Record) string) error {
+	type key struct{ root, rel string }
+	itemOf := make(map[key]int, len(res.Items))
+	for i := range res.Items {
+		e := res.Items[i].Entry
+		itemOf[key{e.Root, e.Rel}] = i
+	}
+	read.SkipHash, read.SkipSidecar = true, true
+	var todo []int // indices into a.Photos
+	for k, carded := range report.Carded(a.Photos) {
+		if carded && a.Photos[k].Thumbnail == "" && a.Photos[k].Error == "" {
+			todo = append(todo, k)
+		}
+	}
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	next := make(chan int)
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for k := range next {
+				i, ok := itemOf[key{a.Photos[k].Root, a.Photos[k].Path}]
+				if !ok {
+					continue
+				}
+				e := res.Items[i].Entry
+				rec := exifread.ReadFile(e.Abs, read)
+				if rec.Err == nil {
+					a.Photos[k].Thumbnail = thumbs(i, e, &rec)
+				}
+			}
+		}()
+	}
+feed:
+	for _, k := range todo {
+		select {
+		case next <- k:
+		case <-ctx.Done():
+			break feed
+		}
+	}
+	close(next)
+	wg.Wait()
+	return ctx.Err()
 }

@@ -38,7 +38,10 @@ type Options struct {
 
 // Item is everything known about one entry after the run.
 type Item struct {
-	Entry     Entry
+	Entry Entry
+	// Record holds the file facts of the read (path, size, SHA-256, mod
+	// time, container, extension mismatch, error, warnings, orientation);
+	// for a photo that was examined, its metadata lives on in Finding.
 	Record    exifread.Record
 	Finding   solarcheck.Finding
 	Thumbnail string
@@ -124,9 +127,19 @@ func (o Options) process(i int, e Entry, rows []sheet.Row) Item {
 		it.Thumbnail = o.Thumbs(i, e, &rec)
 	}
 	rec.Thumbnail = nil // the preview has served; do not keep it for the whole batch
-	it.Record = rec
 	it.Finding = o.Examiner.Examine(solarcheck.Photo{Path: e.Rel, Record: rec, Rows: rows})
+	it.Record = slim(rec)
 	return it
+}
+
+// slim keeps the file facts of a record that the report needs after the
+// examination (hash, size, container, errors and warnings) and drops the
+// metadata, which the finding now carries: on a batch of 100,000 photos
+// the full records would be held until the report is built.
+func slim(r exifread.Record) exifread.Record {
+	return exifread.Record{Path: r.Path, Size: r.Size, SHA256: r.SHA256, ModTime: r.ModTime,
+		Container: r.Container, ExtensionMismatch: r.ExtensionMismatch, Err: r.Err, Error: r.Error,
+		Warnings: r.Warnings, Orientation: r.Orientation}
 }
 
 // resolveSheet matches the sheet's rows to the entries.
