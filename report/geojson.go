@@ -67,10 +67,16 @@ func WriteGeoJSON(w io.Writer, a *Audit) error {
 			ClaimedUTC: p.ClaimedUTC, CorrectedUTCEarliest: p.CorrectedUTCEarliest,
 			CorrectedUTCLatest: p.CorrectedUTCLatest,
 		}
-		if p.Lat != nil || p.Lon != nil {
+		switch {
+		case p.Lat != nil || p.Lon != nil:
 			f := geoFeature{Type: "Feature", Properties: props}
 			f.Properties.Kind = FeatureGPS
 			f.Geometry, f.Properties.SkippedReason = point(p.Lat, p.Lon)
+			fc.Features = append(fc.Features, f)
+		case p.GPSRejected != "":
+			f := geoFeature{Type: "Feature", Properties: props}
+			f.Properties.Kind = FeatureGPS
+			f.Properties.SkippedReason = "GPS position not used: " + p.GPSRejected
 			fc.Features = append(fc.Features, f)
 		}
 		if p.ShadowFix != nil {

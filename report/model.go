@@ -94,6 +94,9 @@ type Photo struct {
 	Explanation          string        `json:"explanation"`
 	Rejected             []Alternative `json:"rejected_explanations"`
 	Error                string        `json:"error"` // why a file could not be read; "" when fine
+	// GPSRejected says why a GPS position in the file was not used (raw
+	// value and reason); the GeoJSON keeps it as a feature with no geometry.
+	GPSRejected string `json:"gps_rejected,omitempty"`
 
 	// ShadowFix is the place the shadows give at the GPS time, if any.
 	ShadowFix *Fix `json:"shadow_fix"`

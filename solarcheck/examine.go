@@ -246,7 +246,8 @@ func captureWall(rec exifread.Record) (zone.Wall, string, error) {
 func (x *Examiner) place(f *Finding, p Photo) {
 	g := p.Record.GPS
 	if g.Position != nil && !g.Position.Valid {
-		f.placeNote = fmt.Sprintf(" The GPS position %q was not used: %s.", g.Position.Raw, g.Position.Invalid)
+		f.GPSRejected = fmt.Sprintf("%q: %s", g.Position.Raw, g.Position.Invalid)
+		f.placeNote = " The GPS position " + f.GPSRejected + " was not used."
 	}
 	if g.Position != nil && g.Position.Valid && g.Position.LatDeg != nil && g.Position.LonDeg != nil {
 		f.LatDeg, f.LonDeg, f.HasPlace, f.PlaceSource = *g.Position.LatDeg, *g.Position.LonDeg, true, "gps"

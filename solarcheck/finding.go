@@ -144,6 +144,9 @@ type Finding struct {
 	PlaceSource    string
 	ElevationM     float64
 	PlaceZones     []string
+	// GPSRejected says why the file's GPS position was not used (its raw
+	// value and the reader's reason); "" when there was none or it was used.
+	GPSRejected string
 
 	Sun      *SunSample  // at the claimed moment and place
 	BestFit  *SunSample  // the sun at the best-fitting shadow time

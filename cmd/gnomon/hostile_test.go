@@ -455,13 +455,8 @@ func checkHostileGeoJSON(t *testing.T, out string) {
 		}
 	}
 	if skipped == 0 {
-		// Issue 6 asks that invalid coordinates be skipped "with a reason".
-		// Today the audit drops an invalid GPS position before the report
-		// (lat/lon null, no feature, no reason in the row); reported to the
-		// lead as a gap rather than failing this test, which guards the
-		// rest of the contract. The row check below still requires that
-		// no out-of-range position reaches any report.
-		t.Logf("KNOWN GAP: gps/out-of-range.jpg (latitude 123.4°, longitude 200.5°) has no skipped GeoJSON feature and no reason in its row")
+		// Issue 6: invalid coordinates are skipped "with a reason".
+		t.Errorf("gps/out-of-range.jpg (latitude 123.4°, longitude 200.5°) has no skipped GeoJSON feature with a reason")
 	}
 }
 

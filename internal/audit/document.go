@@ -110,6 +110,7 @@ func photo(it *Item) report.Photo {
 		Verdict:     string(f.Verdict),
 		Explanation: f.Explanation,
 		Error:       string(rec.Error),
+		GPSRejected: f.GPSRejected,
 		Thumbnail:   it.Thumbnail,
 	}
 	if !f.Wall.IsZero() {

@@ -118,7 +118,10 @@ func (o Options) process(i int, e Entry, rows []sheet.Row) Item {
 	}
 	rec := exifread.ReadFile(e.Abs, o.Read)
 	if e.SidecarOf != "" {
-		it.Record = rec
+		// Hashed like every file; its "unsupported container" is expected
+		// (an XMP file is not a photo) and would only contradict the row.
+		rec.Err, rec.Error = nil, ""
+		it.Record = slim(rec)
 		it.Finding = solarcheck.Finding{Path: e.Rel, Verdict: solarcheck.Unreadable,
 			Explanation: fmt.Sprintf("XMP sidecar of %s: not a photo; its contents are read with that photo.", e.SidecarOf)}
 		return it
