@@ -2,16 +2,12 @@ package main
 
 import (
 	"bytes"
-	"crypto/sha256"
 	"encoding/binary"
-	"encoding/hex"
 	"encoding/json"
-	"io/fs"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
-	"time"
 
 	"github.com/gnomon-forensics/gnomon/exifread/exifwrite"
 	"github.com/gnomon-forensics/gnomon/exifread/exifwrite/fixtures"
@@ -48,37 +44,6 @@ func makeEvidence(t *testing.T) string {
 		t.Fatal(err)
 	}
 	return dir
-}
-
-// treeState records the SHA-256, size, mode and modification time of every
-// item under dir.
-func treeState(t *testing.T, dir string) map[string]string {
-	t.Helper()
-	m := map[string]string{}
-	err := filepath.WalkDir(dir, func(p string, d fs.DirEntry, err error) error {
-		if err != nil {
-			return err
-		}
-		st, err := os.Lstat(p)
-		if err != nil {
-			return err
-		}
-		h := ""
-		if st.Mode().IsRegular() {
-			b, err := os.ReadFile(p)
-			if err != nil {
-				return err
-			}
-			s := sha256.Sum256(b)
-			h = hex.EncodeToString(s[:])
-		}
-		m[p] = h + " " + st.Mode().String() + " " + st.ModTime().UTC().Format(time.RFC3339Nano)
-		return nil
-	})
-	if err != nil {
-		t.Fatal(err)
-	}
-	return m
 }
 
 // TestAuditLeavesEvidenceUntouched hashes the whole input tree (contents,

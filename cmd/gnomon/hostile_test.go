@@ -54,7 +54,7 @@ func TestHostileCorpus(t *testing.T) {
 			t.Errorf("item %q on disk is not in the manifest", name)
 		}
 	}
-	before := hostileTreeState(t, dir)
+	before := treeState(t, dir)
 
 	// Issue 6 "Nothing crashes, hangs": the run must end. 60 s is a hang
 	// guard, not a speed assertion.
@@ -90,7 +90,7 @@ func TestHostileCorpus(t *testing.T) {
 	}
 
 	// Issue 6 "Evidence is never modified": contents, modes, mtimes, link targets.
-	after := hostileTreeState(t, dir)
+	after := treeState(t, dir)
 	if !maps2Equal(before, after) {
 		for p, s := range before {
 			if after[p] != s {
@@ -166,10 +166,10 @@ func hostileWalk(t *testing.T, dir string) map[string]fs.FileMode {
 	return m
 }
 
-// hostileTreeState records every item under dir (folders too) by Lstat:
+// treeState records every item under dir (folders too) by Lstat:
 // mode, size and modification time; the SHA-256 of regular files that can
 // be opened; the target of links. The FIFO is never opened.
-func hostileTreeState(t *testing.T, dir string) map[string]string {
+func treeState(t *testing.T, dir string) map[string]string {
 	t.Helper()
 	m := map[string]string{}
 	err := filepath.WalkDir(dir, func(p string, d fs.DirEntry, err error) error {

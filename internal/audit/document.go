@@ -4,9 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"runtime"
 	"sort"
-	"sync"
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/exifread"
@@ -297,37 +295,16 @@ func LateThumbnails(ctx context.Context, res *Result, a *report.Audit, workers i
 			todo = append(todo, k)
 		}
 	}
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	next := make(chan int)
-	var wg sync.WaitGroup
-	for w := 0; w < workers; w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for k := range next {
-				i, ok := itemOf[key{a.Photos[k].Root, a.Photos[k].Path}]
-				if !ok {
-					continue
-				}
-				e := res.Items[i].Entry
-				rec := exifread.ReadFile(e.Abs, read)
-				if rec.Err == nil {
-					a.Photos[k].Thumbnail = thumbs(i, e, &rec)
-				}
-			}
-		}()
-	}
-feed:
-	for _, k := range todo {
-		select {
-		case next <- k:
-		case <-ctx.Done():
-			break feed
+	return parallel(ctx, len(todo), workers, func(j int) {
+		k := todo[j]
+		i, ok := itemOf[key{a.Photos[k].Root, a.Photos[k].Path}]
+		if !ok {
+			return
 		}
-	}
-	close(next)
-	wg.Wait()
-	return ctx.Err()
+		e := res.Items[i].Entry
+		rec := exifread.ReadFile(e.Abs, read)
+		if rec.Err == nil {
+			a.Photos[k].Thumbnail = thumbs(i, e, &rec)
+		}
+	})
 }

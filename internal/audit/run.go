@@ -61,35 +61,13 @@ type Result struct {
 func Run(ctx context.Context, entries []Entry, o Options) (*Result, error) {
 	rows, problems := resolveSheet(o.Sheet, entries)
 	items := make([]Item, len(entries))
-	workers := o.Workers
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	next := make(chan int)
-	var wg sync.WaitGroup
-	for w := 0; w < workers; w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := range next {
-				items[i] = o.process(i, entries[i], rows[entries[i].key()])
-				if o.Progress != nil {
-					o.Progress()
-				}
-			}
-		}()
-	}
-feed:
-	for i := range entries {
-		select {
-		case next <- i:
-		case <-ctx.Done():
-			break feed
+	err := parallel(ctx, len(entries), o.Workers, func(i int) {
+		items[i] = o.process(i, entries[i], rows[entries[i].key()])
+		if o.Progress != nil {
+			o.Progress()
 		}
-	}
-	close(next)
-	wg.Wait()
-	if err := ctx.Err(); err != nil {
+	})
+	if err != nil {
 		return nil, err
 	}
 
@@ -175,4 +153,35 @@ func unwrapAll(err error) []error {
 		return j.Unwrap()
 	}
 	return []error{err}
+}
+
+// parallel calls fn(i) for i in 0..n-1 on up to workers goroutines (0: one
+// per core) and waits for them. Once ctx is cancelled no further i is
+// started, the calls under way finish, and ctx.Err() is returned.
+func parallel(ctx context.Context, n, workers int, fn func(i int)) error {
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	next := make(chan int)
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				fn(i)
+			}
+		}()
+	}
+feed:
+	for i := 0; i < n; i++ {
+		select {
+		case next <- i:
+		case <-ctx.Done():
+			break feed
+		}
+	}
+	close(next)
+	wg.Wait()
+	return ctx.Err()
 }
