@@ -1,56 +1,18 @@
 package report
 
 import (
-	"bytes"
-	"context"
 	"fmt"
 	"image"
 	_ "image/png"
 	"io"
 	"os"
-	"os/exec"
 	"path/filepath"
 	"regexp"
 	"strings"
 	"testing"
-	"time"
+
+	"github.com/gnomon-forensics/gnomon/internal/browsertest"
 )
-
-// findChromium returns the Chromium binary, or skips the test: CI installs
-// the Debian package "chromium" (see .ci/run), so there it never skips.
-func findChromium(t *testing.T) string {
-	t.Helper()
-	if p := os.Getenv("GNOMON_CHROMIUM"); p != "" {
-		return p
-	}
-	for _, name := range []string{"/usr/bin/chromium", "chromium", "chromium-browser", "google-chrome"} {
-		if p, err := exec.LookPath(name); err == nil {
-			return p
-		}
-	}
-	t.Skip("browser test skipped: no chromium found (install the Debian package \"chromium\" or set GNOMON_CHROMIUM)")
-	return ""
-}
-
-// runChromium runs headless Chromium on a local file with a fresh profile
-// and returns its stdout and stderr.
-func runChromium(t *testing.T, bin, page string, extra ...string) (stdout, stderr string) {
-	t.Helper()
-	args := []string{"--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
-		"--disable-background-networking", "--disable-component-update", "--disable-sync",
-		"--user-data-dir=" + t.TempDir(), "--enable-logging=stderr", "--v=0"}
-	args = append(args, extra...)
-	args = append(args, "file://"+page)
-	ctx, cancel := context.WithTimeout(context.Background(), 90*time.Second)
-	defer cancel()
-	cmd := exec.CommandContext(ctx, bin, args...)
-	var out, errb bytes.Buffer
-	cmd.Stdout, cmd.Stderr = &out, &errb
-	if err := cmd.Run(); err != nil {
-		t.Fatalf("chromium %v: %v\n%s", extra, err, tail(errb.String(), 2000))
-	}
-	return out.String(), errb.String()
-}
 
 func tail(s string, n int) string {
 	if len(s) > n {
@@ -74,70 +36,6 @@ func pageProblems(log string) []string {
 	return out
 }
 
-// element is a start tag seen in Chromium's serialised DOM.
-type element struct {
-	name  string
-	attrs map[string]string
-}
-
-// scanElements lists the start tags of a serialised DOM. In that
-// serialisation text nodes escape '<', so every '<' followed by a letter
-// starts an element; attribute values are quoted and may hold '>'.
-func scanElements(dom string) []element {
-	var out []element
-	for i := 0; i < len(dom); i++ {
-		if dom[i] != '<' || i+1 >= len(dom) || !isLetter(dom[i+1]) {
-			continue
-		}
-		j := i + 1
-		for j < len(dom) && !strings.ContainsRune(" \t\n\r/>", rune(dom[j])) {
-			j++
-		}
-		el := element{name: strings.ToLower(dom[i+1 : j]), attrs: map[string]string{}}
-		for j < len(dom) && dom[j] != '>' {
-			if strings.ContainsRune(" \t\n\r/", rune(dom[j])) {
-				j++
-				continue
-			}
-			k := j
-			for k < len(dom) && !strings.ContainsRune(" \t\n\r/>=", rune(dom[k])) {
-				k++
-			}
-			name := strings.ToLower(dom[j:k])
-			val := ""
-			if k < len(dom) && dom[k] == '=' {
-				k++
-				if k < len(dom) && (dom[k] == '"' || dom[k] == '\'') {
-					q := dom[k]
-					end := strings.IndexByte(dom[k+1:], q)
-					if end < 0 {
-						end = len(dom) - k - 1
-					}
-					val = dom[k+1 : k+1+end]
-					k += end + 2
-				} else {
-					v := k
-					for k < len(dom) && !strings.ContainsRune(" \t\n\r>", rune(dom[k])) {
-						k++
-					}
-					val = dom[v:k]
-				}
-			}
-			el.attrs[name] = val
-			j = k
-		}
-		out = append(out, el)
-		i = j
-	}
-	return out
-}
-
-func isLetter(b byte) bool { return b >= 'a' && b <= 'z' || b >= 'A' && b <= 'Z' }
-
-func hasClass(e element, c string) bool {
-	return strings.Contains(" "+e.attrs["class"]+" ", " "+c+" ")
-}
-
 // TestBrowserRendersSafely opens the report of the hostile fixture in
 // headless Chromium. The browser's own DOM is the witness: it must hold
 // every card and chart and no element or attribute injected through a
@@ -145,7 +43,7 @@ func hasClass(e element, c string) bool {
 // refused; and a screenshot is kept as an artifact.
 func TestBrowserRendersSafely(t *testing.T) {
 	t.Parallel()
-	bin := findChromium(t)
+	bin := browsertest.Find(t)
 	dir := t.TempDir()
 	if err := os.MkdirAll(filepath.Join(dir, "thumbs"), 0o755); err != nil {
 		t.Fatal(err)
@@ -162,7 +60,7 @@ func TestBrowserRendersSafely(t *testing.T) {
 		t.Fatal(err)
 	}
 
-	dom, log := runChromium(t, bin, page, "--dump-dom")
+	dom, log := browsertest.Run(t, bin, page, "--dump-dom")
 	if !strings.Contains(dom, "</html>") {
 		t.Fatalf("no DOM dumped; log:\n%s", tail(log, 2000))
 	}
@@ -170,8 +68,8 @@ func TestBrowserRendersSafely(t *testing.T) {
 		t.Errorf("the page logged problems:\n%s", strings.Join(p, "\n"))
 	}
 
-	els := scanElements(dom)
-	count := func(pred func(element) bool) int {
+	els := browsertest.Elements(dom)
+	count := func(pred func(browsertest.Element) bool) int {
 		n := 0
 		for _, e := range els {
 			if pred(e) {
@@ -196,12 +94,12 @@ func TestBrowserRendersSafely(t *testing.T) {
 		got  int
 		want int
 	}{
-		{"photo cards", count(func(e element) bool { return e.name == "article" && hasClass(e, "card") }), len(a.Photos)},
-		{"sky charts", count(func(e element) bool { return e.name == "figure" && hasClass(e, "sky") }), wantSky},
-		{"clock charts", count(func(e element) bool { return e.name == "svg" && hasClass(e, "clock") }), wantClock},
-		{"sun-path tracks", count(func(e element) bool { return e.name == "path" && hasClass(e, "track") }), wantSky},
-		{"thumbnails", count(func(e element) bool { return e.name == "img" }), 2},
-		{"methods section", count(func(e element) bool { return e.name == "section" && e.attrs["id"] == "methods" }), 1},
+		{"photo cards", count(func(e browsertest.Element) bool { return e.Name == "article" && e.HasClass("card") }), len(a.Photos)},
+		{"sky charts", count(func(e browsertest.Element) bool { return e.Name == "figure" && e.HasClass("sky") }), wantSky},
+		{"clock charts", count(func(e browsertest.Element) bool { return e.Name == "svg" && e.HasClass("clock") }), wantClock},
+		{"sun-path tracks", count(func(e browsertest.Element) bool { return e.Name == "path" && e.HasClass("track") }), wantSky},
+		{"thumbnails", count(func(e browsertest.Element) bool { return e.Name == "img" }), 2},
+		{"methods section", count(func(e browsertest.Element) bool { return e.Name == "section" && e.Attrs["id"] == "methods" }), 1},
 	}
 	for _, p := range presence {
 		if p.got != p.want {
@@ -209,23 +107,23 @@ func TestBrowserRendersSafely(t *testing.T) {
 		}
 	}
 	for _, e := range els {
-		switch e.name {
+		switch e.Name {
 		case "script", "iframe", "object", "embed", "frame", "base", "form", "link":
-			t.Errorf("injected element <%s %v> in the rendered DOM", e.name, e.attrs)
+			t.Errorf("injected element <%s %v> in the rendered DOM", e.Name, e.Attrs)
 		}
-		for k, v := range e.attrs {
+		for k, v := range e.Attrs {
 			if strings.HasPrefix(k, "on") {
-				t.Errorf("event handler attribute %s=%q on <%s>", k, v, e.name)
+				t.Errorf("event handler attribute %s=%q on <%s>", k, v, e.Name)
 			}
 			if (k == "src" || k == "href" || k == "xlink:href") && !strings.HasPrefix(v, "thumbs/") {
-				t.Errorf("<%s %s=%q>: only local thumbnails may be referenced", e.name, k, v)
+				t.Errorf("<%s %s=%q>: only local thumbnails may be referenced", e.Name, k, v)
 			}
 		}
-		if e.name == "meta" && strings.EqualFold(e.attrs["http-equiv"], "refresh") {
+		if e.Name == "meta" && strings.EqualFold(e.Attrs["http-equiv"], "refresh") {
 			t.Error("meta refresh in the DOM")
 		}
 	}
-	if count(func(e element) bool { return e.name == "style" }) != 1 {
+	if count(func(e browsertest.Element) bool { return e.Name == "style" }) != 1 {
 		t.Error("want exactly the page's own <style> element")
 	}
 	// The hostile strings are there, as text.
@@ -243,7 +141,7 @@ func TestBrowserRendersSafely(t *testing.T) {
 		t.Fatal(err)
 	}
 	shot := filepath.Join(artDir, "report-browser.png")
-	_, log = runChromium(t, bin, page, "--screenshot="+shot, "--window-size=1280,4000", "--hide-scrollbars")
+	_, log = browsertest.Run(t, bin, page, "--screenshot="+shot, "--window-size=1280,4000", "--hide-scrollbars")
 	if p := pageProblems(log); len(p) > 0 {
 		t.Errorf("the page logged problems:\n%s", strings.Join(p, "\n"))
 	}
@@ -267,7 +165,7 @@ func TestBrowserDetectorWorks(t *testing.T) {
 		t.Skip("control run skipped in -short mode")
 	}
 	t.Parallel()
-	bin := findChromium(t)
+	bin := browsertest.Find(t)
 	dir := t.TempDir()
 	page := filepath.Join(dir, "control.html")
 	html := fmt.Sprintf(`<!DOCTYPE html><html><head><meta charset="utf-8">
@@ -277,7 +175,7 @@ func TestBrowserDetectorWorks(t *testing.T) {
 	if err := os.WriteFile(page, []byte(html), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	dom, log := runChromium(t, bin, page, "--dump-dom")
+	dom, log := browsertest.Run(t, bin, page, "--dump-dom")
 	if strings.Contains(dom, "<title>ran</title>") {
 		t.Error("the inline script ran despite the policy")
 	}

@@ -8,6 +8,8 @@ import (
 	"strings"
 	"testing"
 	"unicode/utf8"
+
+	"github.com/gnomon-forensics/gnomon/internal/browsertest"
 )
 
 // FuzzJSON: for any bytes in photo strings and any number, report.json is
@@ -96,14 +98,14 @@ func FuzzHTML(f *testing.F) {
 		if err := WriteHTML(&b, a); err != nil {
 			t.Fatal(err)
 		}
-		for _, e := range scanElements(b.String()) {
-			switch e.name {
+		for _, e := range browsertest.Elements(b.String()) {
+			switch e.Name {
 			case "script", "iframe", "object", "embed", "frame", "base", "form", "link":
-				t.Fatalf("element <%s> injected from %q", e.name, s)
+				t.Fatalf("element <%s> injected from %q", e.Name, s)
 			}
-			for k, v := range e.attrs {
+			for k, v := range e.Attrs {
 				if strings.HasPrefix(k, "on") || (k == "src" || k == "href") && (v != s || safeThumb(v) == "") {
-					t.Fatalf("attribute %s=%q on <%s> injected from %q", k, v, e.name, s)
+					t.Fatalf("attribute %s=%q on <%s> injected from %q", k, v, e.Name, s)
 				}
 			}
 		}

@@ -2,7 +2,6 @@ package main
 
 import (
 	"bytes"
-	"context"
 	"crypto/sha256"
 	"encoding/csv"
 	"encoding/hex"
@@ -12,7 +11,6 @@ import (
 	"io/fs"
 	"math"
 	"os"
-	"os/exec"
 	"path/filepath"
 	"runtime/debug"
 	"slices"
@@ -23,6 +21,7 @@ import (
 	"unicode"
 	"unicode/utf8"
 
+	"github.com/gnomon-forensics/gnomon/internal/browsertest"
 	"github.com/gnomon-forensics/gnomon/internal/hostile"
 	"github.com/gnomon-forensics/gnomon/report"
 )
@@ -467,16 +466,13 @@ func checkHostileGeoJSON(t *testing.T, out string) {
 // photo's metadata exists in the rendered page").
 func checkHostileHTML(t *testing.T, out string) {
 	t.Helper()
-	bin := os.Getenv("GNOMON_CHROMIUM")
-	if bin == "" {
-		if _, err := os.Stat("/usr/bin/chromium"); err != nil {
-			t.Log("HTML browser check skipped: /usr/bin/chromium is absent (CI installs the Debian package \"chromium\"; or set GNOMON_CHROMIUM)")
-			return
-		}
-		bin = "/usr/bin/chromium"
+	bin, ok := browsertest.Lookup()
+	if !ok {
+		t.Log("HTML browser check skipped: no chromium found (CI installs the Debian package \"chromium\"; or set GNOMON_CHROMIUM)")
+		return
 	}
 	page := filepath.Join(out, "report.html")
-	dom := hostileChromium(t, bin, page, "--dump-dom")
+	dom, _ := browsertest.Run(t, bin, page, "--dump-dom")
 	if !strings.Contains(dom, "</html>") {
 		t.Fatal("Chromium dumped no DOM")
 	}
@@ -484,26 +480,26 @@ func checkHostileHTML(t *testing.T, out string) {
 	if !strings.Contains(dom, "&lt;x-gnomon-injected") {
 		t.Error("the custom-element payload is not shown as text in the page: the injection check would be vacuous")
 	}
-	for _, e := range scanDOMElements(dom) {
-		switch e.name {
+	for _, e := range browsertest.Elements(dom) {
+		switch e.Name {
 		case "script", "iframe", "object", "embed", "frame", "base", "form", "link":
-			t.Errorf("injected element <%s %v> in the rendered DOM", e.name, e.attrs)
+			t.Errorf("injected element <%s %v> in the rendered DOM", e.Name, e.Attrs)
 		}
-		if slices.Contains(hostile.InjectedNames, e.name) {
-			t.Errorf("element named from a payload: <%s %v>", e.name, e.attrs)
+		if slices.Contains(hostile.InjectedNames, e.Name) {
+			t.Errorf("element named from a payload: <%s %v>", e.Name, e.Attrs)
 		}
-		for k, v := range e.attrs {
+		for k, v := range e.Attrs {
 			if strings.HasPrefix(k, "on") {
-				t.Errorf("event handler attribute %s=%q on <%s>", k, v, e.name)
+				t.Errorf("event handler attribute %s=%q on <%s>", k, v, e.Name)
 			}
 			if k == "id" && v == "pwn" {
-				t.Errorf("<%s id=pwn>: an attribute from a payload", e.name)
+				t.Errorf("<%s id=pwn>: an attribute from a payload", e.Name)
 			}
 			if (k == "src" || k == "href" || k == "xlink:href" || k == "srcset" || k == "action") && !strings.HasPrefix(v, "thumbnails/") && !strings.HasPrefix(v, "#") {
-				t.Errorf("<%s %s=%q>: only local thumbnails and in-page anchors may be referenced", e.name, k, v)
+				t.Errorf("<%s %s=%q>: only local thumbnails and in-page anchors may be referenced", e.Name, k, v)
 			}
 		}
-		if e.name == "meta" && strings.EqualFold(e.attrs["http-equiv"], "refresh") {
+		if e.Name == "meta" && strings.EqualFold(e.Attrs["http-equiv"], "refresh") {
 			t.Error("meta refresh in the DOM")
 		}
 	}
@@ -512,88 +508,13 @@ func checkHostileHTML(t *testing.T, out string) {
 			t.Fatal(err)
 		}
 		shot := filepath.Join(dir, "hostile-report.png")
-		hostileChromium(t, bin, page, "--screenshot="+shot, "--window-size=1280,4000", "--hide-scrollbars")
+		browsertest.Run(t, bin, page, "--screenshot="+shot, "--window-size=1280,4000", "--hide-scrollbars")
 		if st, err := os.Stat(shot); err != nil || st.Size() == 0 {
 			t.Errorf("no screenshot at %s: %v", shot, err)
 		} else {
 			t.Logf("screenshot: %s", shot)
 		}
 	}
-}
-
-// hostileChromium runs headless Chromium on a local page with a fresh
-// profile (the flags of report/browser_test.go) and returns its stdout.
-func hostileChromium(t *testing.T, bin, page string, extra ...string) string {
-	t.Helper()
-	args := []string{"--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
-		"--disable-background-networking", "--disable-component-update", "--disable-sync",
-		"--user-data-dir=" + t.TempDir()}
-	args = append(append(args, extra...), "file://"+page)
-	ctx, cancel := context.WithTimeout(context.Background(), 90*time.Second)
-	defer cancel()
-	cmd := exec.CommandContext(ctx, bin, args...)
-	var o, e bytes.Buffer
-	cmd.Stdout, cmd.Stderr = &o, &e
-	if err := cmd.Run(); err != nil {
-		t.Fatalf("chromium %v: %v\n%s", extra, err, clip(e.String()))
-	}
-	return o.String()
-}
-
-type domElement struct {
-	name  string
-	attrs map[string]string
-}
-
-// scanDOMElements lists the start tags of Chromium's serialised DOM (the
-// scanner of report/browser_test.go): text nodes there escape '<', so every
-// '<' followed by a letter starts an element; attribute values are quoted.
-func scanDOMElements(dom string) []domElement {
-	var out []domElement
-	sep := func(b byte, set string) bool { return strings.IndexByte(set, b) >= 0 }
-	for i := 0; i < len(dom); i++ {
-		if dom[i] != '<' || i+1 >= len(dom) || !(dom[i+1] >= 'a' && dom[i+1] <= 'z' || dom[i+1] >= 'A' && dom[i+1] <= 'Z') {
-			continue
-		}
-		j := i + 1
-		for j < len(dom) && !sep(dom[j], " \t\n\r/>") {
-			j++
-		}
-		el := domElement{name: strings.ToLower(dom[i+1 : j]), attrs: map[string]string{}}
-		for j < len(dom) && dom[j] != '>' {
-			if sep(dom[j], " \t\n\r/") {
-				j++
-				continue
-			}
-			k := j
-			for k < len(dom) && !sep(dom[k], " \t\n\r/>=") {
-				k++
-			}
-			name, val := strings.ToLower(dom[j:k]), ""
-			if k < len(dom) && dom[k] == '=' {
-				k++
-				if k < len(dom) && (dom[k] == '"' || dom[k] == '\'') {
-					end := strings.IndexByte(dom[k+1:], dom[k])
-					if end < 0 {
-						end = len(dom) - k - 1
-					}
-					val = dom[k+1 : k+1+end]
-					k += end + 2
-				} else {
-					v := k
-					for k < len(dom) && !sep(dom[k], " \t\n\r>") {
-						k++
-					}
-					val = dom[v:k]
-				}
-			}
-			el.attrs[name] = val
-			j = k
-		}
-		out = append(out, el)
-		i = j
-	}
-	return out
 }
 
 // TestHostileDetectors is the control for the detectors above: a formula
@@ -625,14 +546,14 @@ func TestHostileDetectors(t *testing.T) {
 	dom := `<html><body><p title="a &lt;script&gt; b">&lt;script&gt;x</p><img src="thumbnails/1.jpg" onerror="alert(1)"><x-gnomon-injected id="pwn"></x-gnomon-injected><script>1</script></body></html>`
 	var names []string
 	var handler bool
-	for _, e := range scanDOMElements(dom) {
-		names = append(names, e.name)
-		if _, ok := e.attrs["onerror"]; ok {
+	for _, e := range browsertest.Elements(dom) {
+		names = append(names, e.Name)
+		if _, ok := e.Attrs["onerror"]; ok {
 			handler = true
 		}
 	}
 	want := []string{"html", "body", "p", "img", "x-gnomon-injected", "script"}
 	if !slices.Equal(names, want) || !handler {
-		t.Errorf("scanDOMElements found %v (onerror seen: %v), want %v with onerror (serialised-DOM rules of the HTML Standard: text escapes '<')", names, handler, want)
+		t.Errorf("browsertest.Elements found %v (onerror seen: %v), want %v with onerror (serialised-DOM rules of the HTML Standard: text escapes '<')", names, handler, want)
 	}
 }
