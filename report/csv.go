@@ -32,40 +32,79 @@ var csvHeader = []string{
 // number is an empty cell. Every other cell is text and goes through
 // NeutraliseCell. Bytes are otherwise kept: a file name that is not valid
 // UTF-8 is written with its exact bytes (JSON carries a base64 copy).
+// It is [NewCSVSink] fed every photo.
 func WriteCSV(w io.Writer, a *Audit) error {
 	if a == nil {
 		return errors.New("report: WriteCSV: nil audit")
 	}
-	cw := csv.NewWriter(w)
-	if err := cw.Write(csvHeader); err != nil {
-		return fmt.Errorf("report: write CSV header: %w", err)
+	return feed(NewCSVSink(w), sorted(a).Photos)
+}
+
+// csvSink is report.csv written a row at a time through encoding/csv, whose
+// Writer holds no more than its buffer.
+type csvSink struct {
+	sinkState
+	cw     *csv.Writer
+	header bool
+	row    []string // reused for every row
+}
+
+// NewCSVSink returns a Sink that writes report.csv to w, byte for byte as
+// [WriteCSV] does for the same photos: the header row at the first Photo
+// or Close, then one row per photo.
+func NewCSVSink(w io.Writer) Sink {
+	return &csvSink{sinkState: sinkState{format: "CSV"}, cw: csv.NewWriter(w)}
+}
+
+func (s *csvSink) start() error {
+	if s.header {
+		return nil
 	}
-	for _, p := range sorted(a).Photos {
-		var az, alt string
-		if p.Sun != nil {
-			az, alt = csvFloat(&p.Sun.Azimuth), csvFloat(&p.Sun.Altitude)
-		}
-		row := []string{
-			NeutraliseCell(p.Path), NeutraliseCell(p.Root), NeutraliseCell(p.SHA256),
-			strconv.FormatInt(p.Size, 10),
-			NeutraliseCell(p.Container), NeutraliseCell(p.Camera), NeutraliseCell(p.ClaimedLocal),
-			NeutraliseCell(p.ClaimSource), NeutraliseCell(p.Zone), NeutraliseCell(p.ClaimedUTC),
-			csvFloat(p.Lat), csvFloat(p.Lon), az, alt,
-			NeutraliseCell(p.Verdict),
-			csvFloat(p.OffsetS), csvFloat(p.OffsetLowS), csvFloat(p.OffsetHighS),
-			NeutraliseCell(p.CorrectedUTCEarliest), NeutraliseCell(p.CorrectedUTCLatest),
-			NeutraliseCell(checksCell(p.Checks)),
-			NeutraliseCell(p.Explanation), NeutraliseCell(p.Error),
-		}
-		if err := cw.Write(row); err != nil {
-			return fmt.Errorf("report: write CSV row for %q: %w", p.Path, err)
-		}
-	}
-	cw.Flush()
-	if err := cw.Error(); err != nil {
-		return fmt.Errorf("report: write CSV: %w", err)
+	s.header = true
+	if err := s.cw.Write(csvHeader); err != nil {
+		return s.fail(fmt.Errorf("header: %w", err))
 	}
 	return nil
+}
+
+func (s *csvSink) Photo(p *Photo) error {
+	if err := s.admit(p); err != nil {
+		return err
+	}
+	if err := s.start(); err != nil {
+		return err
+	}
+	var az, alt string
+	if p.Sun != nil {
+		az, alt = csvFloat(&p.Sun.Azimuth), csvFloat(&p.Sun.Altitude)
+	}
+	s.row = append(s.row[:0],
+		NeutraliseCell(p.Path), NeutraliseCell(p.Root), NeutraliseCell(p.SHA256),
+		strconv.FormatInt(p.Size, 10),
+		NeutraliseCell(p.Container), NeutraliseCell(p.Camera), NeutraliseCell(p.ClaimedLocal),
+		NeutraliseCell(p.ClaimSource), NeutraliseCell(p.Zone), NeutraliseCell(p.ClaimedUTC),
+		csvFloat(p.Lat), csvFloat(p.Lon), az, alt,
+		NeutraliseCell(p.Verdict),
+		csvFloat(p.OffsetS), csvFloat(p.OffsetLowS), csvFloat(p.OffsetHighS),
+		NeutraliseCell(p.CorrectedUTCEarliest), NeutraliseCell(p.CorrectedUTCLatest),
+		NeutraliseCell(checksCell(p.Checks)),
+		NeutraliseCell(p.Explanation), NeutraliseCell(p.Error),
+	)
+	if err := s.cw.Write(s.row); err != nil {
+		return s.fail(fmt.Errorf("row for %q: %w", p.Path, err))
+	}
+	return nil
+}
+
+func (s *csvSink) Close() error {
+	if ok, err := s.closing(); !ok {
+		return err
+	}
+	if err := s.start(); err != nil {
+		return err
+	}
+	s.cw.Flush()
+	return s.fail(s.cw.Error())
 }
 
 // csvFloat formats a number in the shortest form that reads back exactly;

@@ -30,6 +30,13 @@
 //     a Content-Security-Policy that forbids scripts, so nothing in the evidence
 //     can run when the page is opened.
 //
+// Each file can also be written a photo at a time through a [Sink]
+// ([NewJSONSink], [NewCSVSink], [NewGeoJSONSink], [NewHTMLSink]), so that a
+// batch of any size streams through in flat memory; the Write functions are
+// those sinks fed a whole [Audit], and both give the same bytes. Photos must
+// reach a sink in report order (path, then root); one out of order is
+// refused with [ErrOrder].
+//
 // Every writer renders the same facts; none computes a finding. The files are
 // deterministic: the same Audit gives the same bytes. [WriteFileAtomic] puts a
 // file in place only once it is complete.

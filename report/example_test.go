@@ -2,6 +2,7 @@ package report_test
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"image"
 	"image/jpeg"
@@ -123,4 +124,65 @@ func ExampleCSVColumns() {
 	cols := report.CSVColumns()
 	fmt.Println(len(cols), cols[0], cols[len(cols)-1])
 	// Output: 23 path error
+}
+
+// A caller that produces photos one at a time, in report order, streams them
+// into report.json without holding the batch.
+func ExampleNewJSONSink() {
+	var b bytes.Buffer
+	s := report.NewJSONSink(&b, &report.Audit{Tool: report.Tool{Name: "gnomon"}})
+	for _, path := range []string{"a/1.jpg", "a/2.jpg"} {
+		if err := s.Photo(&report.Photo{Path: path, Verdict: "unverified"}); err != nil {
+			panic(err)
+		}
+	}
+	if err := s.Close(); err != nil {
+		panic(err)
+	}
+	for _, line := range strings.Split(b.String(), "\n") {
+		if strings.Contains(line, `"path"`) || strings.Contains(line, `"schema"`) {
+			fmt.Println(strings.TrimSpace(line))
+		}
+	}
+	// Output:
+	// "schema": "gnomon.audit/1",
+	// "path": "a/1.jpg",
+	// "path": "a/2.jpg",
+}
+
+// A photo out of report order is refused, naming both paths.
+func ExampleNewCSVSink() {
+	var b bytes.Buffer
+	s := report.NewCSVSink(&b)
+	_ = s.Photo(&report.Photo{Path: "b.jpg"})
+	err := s.Photo(&report.Photo{Path: "a.jpg"})
+	fmt.Println(errors.Is(err, report.ErrOrder))
+	fmt.Println(err)
+	// Output:
+	// true
+	// report: write CSV: photo "a.jpg" (root "") given after "b.jpg" (root ""): photo out of report order
+}
+
+func ExampleNewGeoJSONSink() {
+	var b bytes.Buffer
+	s := report.NewGeoJSONSink(&b)
+	_ = s.Photo(&report.Photo{Path: "quay.jpg", Lat: f(43.21), Lon: f(5.37)})
+	_ = s.Close()
+	i := strings.Index(b.String(), `"coordinates"`)
+	fmt.Println(strings.Join(strings.Fields(b.String()[i:i+60]), " "))
+	// Output: "coordinates": [ 5.37, 43.21 ]
+}
+
+// The cards are chosen from the verdicts before the first photo arrives;
+// the sink keeps only the carded photos until Close renders the page.
+func ExampleNewHTMLSink() {
+	verdicts := []string{"consistent", "zone_slip", "unverified"}
+	var b bytes.Buffer
+	s := report.NewHTMLSink(&b, &report.Audit{}, report.Carded(verdicts))
+	for i, v := range verdicts {
+		_ = s.Photo(&report.Photo{Path: fmt.Sprintf("DSC_%04d.jpg", i), Verdict: v})
+	}
+	_ = s.Close()
+	fmt.Println(strings.Count(b.String(), `<article class="card`), "cards")
+	// Output: 3 cards
 }

@@ -56,47 +56,82 @@ type geoProperties struct {
 // is kept as a Feature with null geometry and a "skipped_reason" property, so
 // a GIS tool draws nothing wrong and nothing disappears silently.
 // Property strings follow the "_raw_b64" rule of report.json.
+// It is [NewGeoJSONSink] fed every photo.
 func WriteGeoJSON(w io.Writer, a *Audit) error {
 	if a == nil {
 		return errors.New("report: WriteGeoJSON: nil audit")
 	}
-	fc := geoCollection{Type: "FeatureCollection", Features: []geoFeature{}}
-	for _, p := range sorted(a).Photos {
-		props := geoProperties{
-			Path: p.Path, Root: p.Root, Camera: p.Camera, Verdict: p.Verdict,
-			ClaimedUTC: p.ClaimedUTC, CorrectedUTCEarliest: p.CorrectedUTCEarliest,
-			CorrectedUTCLatest: p.CorrectedUTCLatest,
-		}
-		switch {
-		case p.Lat != nil || p.Lon != nil:
-			f := geoFeature{Type: "Feature", Properties: props}
-			f.Properties.Kind = FeatureGPS
-			f.Geometry, f.Properties.SkippedReason = point(p.Lat, p.Lon)
-			fc.Features = append(fc.Features, f)
-		case p.GPSRejected != "":
-			f := geoFeature{Type: "Feature", Properties: props}
-			f.Properties.Kind = FeatureGPS
-			f.Properties.SkippedReason = "GPS position not used: " + p.GPSRejected
-			fc.Features = append(fc.Features, f)
-		}
-		if p.ShadowFix != nil {
-			f := geoFeature{Type: "Feature", Properties: props}
-			f.Properties.Kind = FeatureShadowFix
-			r := p.ShadowFix.RadiusKm
-			f.Properties.RadiusKm = &r
-			f.Geometry, f.Properties.SkippedReason = point(&p.ShadowFix.Lat, &p.ShadowFix.Lon)
-			fc.Features = append(fc.Features, f)
-		}
+	return feed(NewGeoJSONSink(w), sorted(a).Photos)
+}
+
+// geoSink is report.geojson written as photos arrive, each photo's
+// features appended to "features" at once.
+type geoSink struct {
+	sinkState
+	fc   geoCollection // its Features are never read: they stream
+	doc  *jsonDoc
+	feat [2]geoFeature // the features of the current photo
+}
+
+// NewGeoJSONSink returns a Sink that writes report.geojson to w, byte for
+// byte as [WriteGeoJSON] does for the same photos, streaming the features
+// out in pieces of about jsonFlushBytes. Nothing is written until the first
+// Photo or Close.
+func NewGeoJSONSink(w io.Writer) Sink {
+	s := &geoSink{sinkState: sinkState{format: "GeoJSON"}, fc: geoCollection{Type: "FeatureCollection"}}
+	s.doc = newJSONDoc(w, reflect.ValueOf(&s.fc).Elem(), "features")
+	return s
+}
+
+func (s *geoSink) Photo(p *Photo) error {
+	if err := s.admit(p); err != nil {
+		return err
 	}
-	e := jsonEncoder{w: w} // streams: see jsonFlushBytes
-	if err := e.value(reflect.ValueOf(fc), 0); err != nil {
-		return fmt.Errorf("report: encode GeoJSON: %w", err)
-	}
-	e.buf.WriteByte('\n')
-	if _, err := w.Write(e.buf.Bytes()); err != nil {
-		return fmt.Errorf("report: write GeoJSON: %w", err)
+	fs := features(p, s.feat[:0])
+	for i := range fs {
+		if err := s.doc.elem(reflect.ValueOf(&fs[i]).Elem()); err != nil {
+			return s.fail(err)
+		}
 	}
 	return nil
+}
+
+func (s *geoSink) Close() error {
+	if ok, err := s.closing(); !ok {
+		return err
+	}
+	return s.fail(s.doc.end())
+}
+
+// features appends to out the features of one photo: its GPS position (or
+// why it is not drawn) and its shadow fix, each when present.
+func features(p *Photo, out []geoFeature) []geoFeature {
+	props := geoProperties{
+		Path: p.Path, Root: p.Root, Camera: p.Camera, Verdict: p.Verdict,
+		ClaimedUTC: p.ClaimedUTC, CorrectedUTCEarliest: p.CorrectedUTCEarliest,
+		CorrectedUTCLatest: p.CorrectedUTCLatest,
+	}
+	switch {
+	case p.Lat != nil || p.Lon != nil:
+		f := geoFeature{Type: "Feature", Properties: props}
+		f.Properties.Kind = FeatureGPS
+		f.Geometry, f.Properties.SkippedReason = point(p.Lat, p.Lon)
+		out = append(out, f)
+	case p.GPSRejected != "":
+		f := geoFeature{Type: "Feature", Properties: props}
+		f.Properties.Kind = FeatureGPS
+		f.Properties.SkippedReason = "GPS position not used: " + p.GPSRejected
+		out = append(out, f)
+	}
+	if p.ShadowFix != nil {
+		f := geoFeature{Type: "Feature", Properties: props}
+		f.Properties.Kind = FeatureShadowFix
+		r := p.ShadowFix.RadiusKm
+		f.Properties.RadiusKm = &r
+		f.Geometry, f.Properties.SkippedReason = point(&p.ShadowFix.Lat, &p.ShadowFix.Lon)
+		out = append(out, f)
+	}
+	return out
 }
 
 // point returns a Point for lat/lon, or nil and the reason it cannot be drawn.

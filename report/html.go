@@ -72,16 +72,75 @@ func verdictStyleOf(code string) verdictStyle {
 // relative path inside the report folder (written by WriteThumbnail); any
 // other form (absolute, "..", a URL scheme) is not linked. Every string from
 // a photo or a sheet is escaped by html/template and shown through Visible.
+// It is [NewHTMLSink] fed every photo, with the cards chosen by [Carded].
 func WriteHTML(w io.Writer, a *Audit) error {
 	if a == nil {
 		return errors.New("report: WriteHTML: nil audit")
 	}
-	page, err := buildPage(sorted(a))
-	if err != nil {
-		return fmt.Errorf("report: write HTML: %w", err)
+	c := sorted(a)
+	verdicts := make([]string, len(c.Photos))
+	for i := range c.Photos {
+		verdicts[i] = c.Photos[i].Verdict
 	}
-	if err = pageTemplate.Execute(w, page); err != nil {
-		return fmt.Errorf("report: write HTML: %w", err)
+	return feed(NewHTMLSink(w, c, Carded(verdicts)), c.Photos)
+}
+
+// htmlSink gathers what report.html needs as photos arrive: the carded
+// photos themselves (at most MaxCards) and, for every photo, only its
+// verdict's count. Its memory is bounded by the cards, not the batch.
+type htmlSink struct {
+	sinkState
+	w      io.Writer
+	head   Audit
+	carded []bool
+	counts map[string]int // every photo, by verdict
+	left   map[string]int // photos without a card, by verdict
+	cards  []cardPhoto
+}
+
+// cardPhoto is a photo kept for its card, with its place in the full list.
+type cardPhoto struct {
+	p     Photo
+	index int // 1-based
+}
+
+// NewHTMLSink returns a Sink that writes report.html to w, byte for byte as
+// [WriteHTML] does for the same photos when carded is [Carded] of their
+// verdicts. head gives the tool, run and cameras (head.Photos is ignored;
+// nil is an empty head). carded[i] says whether the i-th photo given gets a
+// card (an index beyond len(carded) gets none); at most MaxCards photos are
+// kept, so a carded photo beyond that is counted as left without a card.
+// A kept photo is a shallow copy: the caller must not change its slices
+// (SunPath, Checks, ...) before Close. The page is rendered at Close.
+func NewHTMLSink(w io.Writer, head *Audit, carded []bool) Sink {
+	return &htmlSink{sinkState: sinkState{format: "HTML"}, w: w, head: headOf(head), carded: carded,
+		counts: map[string]int{}, left: map[string]int{}}
+}
+
+func (s *htmlSink) Photo(p *Photo) error {
+	if err := s.admit(p); err != nil {
+		return err
+	}
+	i := s.n - 1 // admit counted p
+	s.counts[p.Verdict]++
+	if i < len(s.carded) && s.carded[i] && len(s.cards) < MaxCards {
+		s.cards = append(s.cards, cardPhoto{p: *p, index: i + 1})
+	} else {
+		s.left[p.Verdict]++
+	}
+	return nil
+}
+
+func (s *htmlSink) Close() error {
+	if ok, err := s.closing(); !ok {
+		return err
+	}
+	page, err := s.page()
+	if err != nil {
+		return s.fail(err)
+	}
+	if err := pageTemplate.Execute(s.w, page); err != nil {
+		return s.fail(err)
 	}
 	return nil
 }
@@ -113,17 +172,18 @@ type htmlPage struct {
 // report.csv always hold every photo.
 const MaxCards = 1000
 
-// Carded reports, for each photo in the order given, whether report.html
-// gives it a card. Every photo gets one when there are at most MaxCards.
-// Otherwise the cards go first to the photos whose verdict calls for
-// attention (anything but consistent and unverified), then to the others;
-// within each of those two groups the verdicts take turns, each in path
-// order, so that a rare finding is never crowded out by a common one. The
-// choice depends only on the photos' order and verdicts, so reruns choose
-// alike.
-func Carded(photos []Photo) []bool {
-	out := make([]bool, len(photos))
-	if len(photos) <= MaxCards {
+// Carded reports, for each photo in report order (given by its verdict),
+// whether report.html gives it a card. Every photo gets one when there are
+// at most MaxCards. Otherwise the cards go first to the photos whose verdict
+// calls for attention (anything but consistent and unverified), then to the
+// others; within each of those two groups the verdicts take turns, each in
+// path order, so that a rare finding is never crowded out by a common one.
+// The choice depends only on the photos' order and verdicts, so reruns
+// choose alike; taking the verdicts alone lets a caller that streams the
+// photos choose the cards before the first photo reaches [NewHTMLSink].
+func Carded(verdicts []string) []bool {
+	out := make([]bool, len(verdicts))
+	if len(verdicts) <= MaxCards {
 		for i := range out {
 			out[i] = true
 		}
@@ -131,11 +191,11 @@ func Carded(photos []Photo) []bool {
 	}
 	byVerdict := map[string][]int{}
 	var order []string
-	for i, p := range photos {
-		if _, ok := byVerdict[p.Verdict]; !ok {
-			order = append(order, p.Verdict)
+	for i, v := range verdicts {
+		if _, ok := byVerdict[v]; !ok {
+			order = append(order, v)
 		}
-		byVerdict[p.Verdict] = append(byVerdict[p.Verdict], i)
+		byVerdict[v] = append(byVerdict[v], i)
 	}
 	slices.Sort(order)
 	var flagged, calm []string
@@ -187,31 +247,28 @@ type cardView struct {
 	Sky   *skyChart
 }
 
-func buildPage(a *Audit) (htmlPage, error) {
-	pg := htmlPage{A: a, Total: len(a.Photos), MaxCards: MaxCards, Left: map[string]int{}}
+// page builds the page from what the sink gathered.
+func (s *htmlSink) page() (htmlPage, error) {
+	pg := htmlPage{A: &s.head, Total: s.n, MaxCards: MaxCards, Left: s.left, Carded: len(s.cards)}
 	var bg strings.Builder
 	if err := pageTemplate.ExecuteTemplate(&bg, "skybg", skyStatic()); err != nil {
 		return pg, err
 	}
 	pg.SkyBG = template.HTML(bg.String()) // our own markup, built from constants only
-	counts := map[string]int{}
-	for _, p := range a.Photos {
-		counts[p.Verdict]++
-	}
 	known := map[string]bool{}
-	for _, s := range verdictStyles {
-		known[s.Code] = true
-		pg.Tally = append(pg.Tally, tallyRow{s, counts[s.Code]})
+	for _, st := range verdictStyles {
+		known[st.Code] = true
+		pg.Tally = append(pg.Tally, tallyRow{st, s.counts[st.Code]})
 	}
 	var unknown []string
-	for code := range counts {
+	for code := range s.counts {
 		if !known[code] {
 			unknown = append(unknown, code)
 		}
 	}
 	slices.Sort(unknown)
 	for _, code := range unknown {
-		pg.Tally = append(pg.Tally, tallyRow{verdictStyleOf(code), counts[code]})
+		pg.Tally = append(pg.Tally, tallyRow{verdictStyleOf(code), s.counts[code]})
 	}
 	const barW = 900.0
 	x := 0.0
@@ -224,16 +281,8 @@ func buildPage(a *Audit) (htmlPage, error) {
 			Count: t.Count, TextX: f1(x + w/2), ShowText: w >= 28})
 		x += w
 	}
-	for _, c := range a.Cameras {
+	for _, c := range s.head.Cameras {
 		pg.Cameras = append(pg.Cameras, buildClock(c))
-	}
-	carded := Carded(a.Photos)
-	for i, p := range a.Photos {
-		if carded[i] {
-			pg.Carded++
-		} else {
-			pg.Left[p.Verdict]++
-		}
 	}
 	for _, t := range pg.Tally {
 		if n := pg.Left[t.Style.Code]; n > 0 {
@@ -241,12 +290,9 @@ func buildPage(a *Audit) (htmlPage, error) {
 		}
 	}
 	pg.Cards = func(yield func(cardView) bool) {
-		for i, p := range a.Photos {
-			if !carded[i] {
-				continue
-			}
-			if !yield(cardView{P: p, Index: i + 1, Style: verdictStyleOf(p.Verdict),
-				Thumb: safeThumb(p.Thumbnail), Sky: buildSky(p)}) {
+		for _, c := range s.cards {
+			if !yield(cardView{P: c.p, Index: c.index, Style: verdictStyleOf(c.p.Verdict),
+				Thumb: safeThumb(c.p.Thumbnail), Sky: buildSky(c.p)}) {
 				return
 			}
 		}

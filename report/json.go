@@ -2,7 +2,6 @@ package report
 
 import (
 	"bytes"
-	"cmp"
 	"encoding/base64"
 	"encoding/json"
 	"errors"
@@ -31,9 +30,7 @@ var ErrInvalidKey = errors.New("map key is not valid UTF-8")
 // reordering the caller's slices.
 func sorted(a *Audit) *Audit {
 	c := *a
-	byPath := func(x, y Photo) int {
-		return cmp.Or(strings.Compare(x.Path, y.Path), strings.Compare(x.Root, y.Root))
-	}
+	byPath := func(x, y Photo) int { return photoOrder(&x, &y) }
 	// The audit hands over its photos sorted already; a large batch is not
 	// copied once per report then.
 	if !slices.IsSortedFunc(a.Photos, byPath) {
@@ -49,24 +46,61 @@ func sorted(a *Audit) *Audit {
 // indent, a trailing newline, photos sorted by path and cameras by id (a is
 // not modified). Strings that are not valid UTF-8 and non-finite numbers get
 // the sibling members described in the package doc, so the output is valid
-// JSON for any input and loses no byte.
+// JSON for any input and loses no byte. It is [NewJSONSink] fed every photo.
 func WriteJSON(w io.Writer, a *Audit) error {
 	if a == nil {
 		return errors.New("report: WriteJSON: nil audit")
 	}
 	c := sorted(a)
-	if c.Schema == "" {
-		c.Schema = SchemaID
+	return feed(NewJSONSink(w, c), c.Photos)
+}
+
+// feed gives every photo to s in turn and closes it: the whole-document
+// writers are the sinks, so each format has one code path.
+func feed(s Sink, photos []Photo) error {
+	for i := range photos {
+		if err := s.Photo(&photos[i]); err != nil {
+			return err
+		}
 	}
-	e := jsonEncoder{w: w}
-	if err := e.value(reflect.ValueOf(c).Elem(), 0); err != nil {
-		return fmt.Errorf("report: encode JSON: %w", err)
+	return s.Close()
+}
+
+// jsonSink is report.json written as photos arrive: the header members
+// first, then each photo as an element of "photos", then the cameras.
+type jsonSink struct {
+	sinkState
+	head Audit
+	doc  *jsonDoc
+}
+
+// NewJSONSink returns a Sink that writes report.json to w, byte for byte as
+// [WriteJSON] does for the same photos. head gives the schema (SchemaID when
+// empty), tool, run and cameras (written sorted by id, from a copy);
+// head.Photos is ignored and nil is an empty head. Nothing is written until
+// the first Photo or Close, so the constructor cannot fail; encoded text is
+// passed to w in pieces of about jsonFlushBytes, never as a whole document.
+func NewJSONSink(w io.Writer, head *Audit) Sink {
+	s := &jsonSink{sinkState: sinkState{format: "JSON"}, head: headOf(head)}
+	if s.head.Schema == "" {
+		s.head.Schema = SchemaID
 	}
-	e.buf.WriteByte('\n')
-	if _, err := w.Write(e.buf.Bytes()); err != nil {
-		return fmt.Errorf("report: write JSON: %w", err)
+	s.doc = newJSONDoc(w, reflect.ValueOf(&s.head).Elem(), "photos")
+	return s
+}
+
+func (s *jsonSink) Photo(p *Photo) error {
+	if err := s.admit(p); err != nil {
+		return err
 	}
-	return nil
+	return s.fail(s.doc.elem(reflect.ValueOf(p).Elem()))
+}
+
+func (s *jsonSink) Close() error {
+	if ok, err := s.closing(); !ok {
+		return err
+	}
+	return s.fail(s.doc.end())
 }
 
 // jsonFlushBytes is how much encoded JSON is held before it is passed on:
@@ -225,28 +259,13 @@ func (e *jsonEncoder) value(v reflect.Value, depth int) error {
 	case reflect.Float32, reflect.Float64:
 		e.num(v.Float())
 	case reflect.Slice, reflect.Array:
-		if v.Len() == 0 {
-			e.buf.WriteString("[]")
-			return nil
-		}
-		e.buf.WriteByte('[')
+		arr := arrayWriter{e: e, depth: depth}
 		for i := range v.Len() {
-			if i > 0 {
-				e.buf.WriteByte(',')
-			}
-			e.newline(depth + 1)
-			if err := e.value(v.Index(i), depth+1); err != nil {
-				return fmt.Errorf("[%d]: %w", i, err)
-			}
-			if e.w != nil && e.buf.Len() > jsonFlushBytes {
-				if _, err := e.w.Write(e.buf.Bytes()); err != nil {
-					return fmt.Errorf("write: %w", err)
-				}
-				e.buf.Reset()
+			if err := arr.elem(v.Index(i)); err != nil {
+				return err
 			}
 		}
-		e.newline(depth)
-		e.buf.WriteByte(']')
+		arr.end()
 	case reflect.Map:
 		if v.Type().Key().Kind() != reflect.String {
 			return fmt.Errorf("unsupported map key type %s", v.Type().Key())
@@ -330,72 +349,217 @@ func isEmpty(v reflect.Value) bool {
 // object writes a struct, adding "<name>_raw_b64" after a string or string
 // list holding invalid UTF-8 and "<name>_nonfinite" after a NaN/Inf number.
 func (e *jsonEncoder) object(v reflect.Value, depth int) error {
-	first := true
-	member := func(name string) {
-		if first {
-			e.buf.WriteByte('{')
-		} else {
-			e.buf.WriteByte(',')
-		}
-		first = false
-		e.newline(depth + 1)
-		e.str(name)
-		e.buf.WriteString(": ")
-	}
+	obj := objectWriter{e: e, depth: depth}
 	for _, f := range e.fieldsOf(v.Type()) {
-		fv := v.Field(f.index)
-		if f.omitEmpty && isEmpty(fv) {
-			continue
-		}
-		member(f.name)
-		if err := e.value(fv, depth+1); err != nil {
-			return fmt.Errorf("%s: %w", f.name, err)
-		}
-		// Siblings.
-		for fv.Kind() == reflect.Pointer && !fv.IsNil() {
-			fv = fv.Elem()
-		}
-		switch {
-		case fv.Kind() == reflect.String && !utf8.ValidString(fv.String()):
-			member(f.name + rawB64Suffix)
-			e.str(base64.StdEncoding.EncodeToString([]byte(fv.String())))
-		case fv.Kind() == reflect.Slice && fv.Type().Elem().Kind() == reflect.String:
-			var bad bool
-			for i := range fv.Len() {
-				bad = bad || !utf8.ValidString(fv.Index(i).String())
-			}
-			if !bad {
-				break
-			}
-			member(f.name + rawB64Suffix)
-			e.buf.WriteByte('[')
-			for i := range fv.Len() {
-				if i > 0 {
-					e.buf.WriteByte(',')
-				}
-				e.newline(depth + 2)
-				if s := fv.Index(i).String(); utf8.ValidString(s) {
-					e.buf.WriteString("null")
-				} else {
-					e.str(base64.StdEncoding.EncodeToString([]byte(s)))
-				}
-			}
-			e.newline(depth + 1)
-			e.buf.WriteByte(']')
-		case fv.Kind() == reflect.Float64 || fv.Kind() == reflect.Float32:
-			if n := nonFiniteName(fv.Float()); n != "" {
-				member(f.name + nonFiniteSuffix)
-				e.str(n)
-			}
+		if err := obj.field(v.Field(f.index), f); err != nil {
+			return err
 		}
 	}
-	if first {
-		e.buf.WriteString("{}")
+	obj.end()
+	return nil
+}
+
+// objectWriter writes one JSON object a member at a time, so that a
+// document can stop between members (see jsonDoc).
+type objectWriter struct {
+	e     *jsonEncoder
+	depth int // of the object itself
+	n     int // members written
+}
+
+// name opens the next member: the brace or comma, the indent and the name.
+func (o *objectWriter) name(name string) {
+	if o.n == 0 {
+		o.e.buf.WriteByte('{')
+	} else {
+		o.e.buf.WriteByte(',')
+	}
+	o.n++
+	o.e.newline(o.depth + 1)
+	o.e.str(name)
+	o.e.buf.WriteString(": ")
+}
+
+// field writes struct field fv as member f, then its siblings; nothing when
+// f is omitempty and fv is empty.
+func (o *objectWriter) field(fv reflect.Value, f jsonField) error {
+	e, depth := o.e, o.depth
+	if f.omitEmpty && isEmpty(fv) {
 		return nil
 	}
-	e.newline(depth)
-	e.buf.WriteByte('}')
+	o.name(f.name)
+	if err := e.value(fv, depth+1); err != nil {
+		return fmt.Errorf("%s: %w", f.name, err)
+	}
+	// Siblings.
+	for fv.Kind() == reflect.Pointer && !fv.IsNil() {
+		fv = fv.Elem()
+	}
+	switch {
+	case fv.Kind() == reflect.String && !utf8.ValidString(fv.String()):
+		o.name(f.name + rawB64Suffix)
+		e.str(base64.StdEncoding.EncodeToString([]byte(fv.String())))
+	case fv.Kind() == reflect.Slice && fv.Type().Elem().Kind() == reflect.String:
+		var bad bool
+		for i := range fv.Len() {
+			bad = bad || !utf8.ValidString(fv.Index(i).String())
+		}
+		if !bad {
+			break
+		}
+		o.name(f.name + rawB64Suffix)
+		e.buf.WriteByte('[')
+		for i := range fv.Len() {
+			if i > 0 {
+				e.buf.WriteByte(',')
+			}
+			e.newline(depth + 2)
+			if s := fv.Index(i).String(); utf8.ValidString(s) {
+				e.buf.WriteString("null")
+			} else {
+				e.str(base64.StdEncoding.EncodeToString([]byte(s)))
+			}
+		}
+		e.newline(depth + 1)
+		e.buf.WriteByte(']')
+	case fv.Kind() == reflect.Float64 || fv.Kind() == reflect.Float32:
+		if n := nonFiniteName(fv.Float()); n != "" {
+			o.name(f.name + nonFiniteSuffix)
+			e.str(n)
+		}
+	}
 	return nil
+}
+
+// end closes the object: "{}" when it has no member.
+func (o *objectWriter) end() {
+	if o.n == 0 {
+		o.e.buf.WriteString("{}")
+		return
+	}
+	o.e.newline(o.depth)
+	o.e.buf.WriteByte('}')
+}
+
+// arrayWriter writes one JSON array an element at a time, passing the text
+// on to the encoder's writer between elements once over jsonFlushBytes.
+type arrayWriter struct {
+	e     *jsonEncoder
+	depth int // of the array itself
+	n     int // elements written
+}
+
+func (a *arrayWriter) elem(v reflect.Value) error {
+	if a.n == 0 {
+		a.e.buf.WriteByte('[')
+	} else {
+		a.e.buf.WriteByte(',')
+	}
+	a.n++
+	a.e.newline(a.depth + 1)
+	if err := a.e.value(v, a.depth+1); err != nil {
+		return fmt.Errorf("[%d]: %w", a.n-1, err)
+	}
+	if a.e.w != nil && a.e.buf.Len() > jsonFlushBytes {
+		return a.e.flush()
+	}
+	return nil
+}
+
+// end closes the array: "[]" when it has no element, as encoding/json
+// writes an empty slice.
+func (a *arrayWriter) end() {
+	if a.n == 0 {
+		a.e.buf.WriteString("[]")
+		return
+	}
+	a.e.newline(a.depth)
+	a.e.buf.WriteByte(']')
+}
+
+// flush passes the encoded text on to w.
+func (e *jsonEncoder) flush() error {
+	if _, err := e.w.Write(e.buf.Bytes()); err != nil {
+		return fmt.Errorf("write: %w", err)
+	}
+	e.buf.Reset()
+	return nil
+}
+
+// jsonDoc writes a struct as a document exactly as jsonEncoder.value would,
+// except that one slice member, the stream, takes its elements one at a
+// time from the caller: the members before it are written at the first
+// element (or at the end), those after it at the end. So a document of any
+// length passes through in jsonFlushBytes pieces. The stream member's own
+// value in the struct is never read, and it is written even when empty.
+type jsonDoc struct {
+	e      jsonEncoder
+	doc    reflect.Value // the struct
+	fields []jsonField
+	at     int // index in fields of the stream member
+	obj    objectWriter
+	arr    arrayWriter
+	begun  bool
+}
+
+// newJSONDoc prepares doc (an addressable struct) with the member named
+// stream; a stream name that is not a member is a programming error.
+func newJSONDoc(w io.Writer, doc reflect.Value, stream string) *jsonDoc {
+	d := &jsonDoc{e: jsonEncoder{w: w}, doc: doc, fields: jsonFields(doc.Type()), at: -1}
+	for i, f := range d.fields {
+		if f.name == stream {
+			d.at = i
+		}
+	}
+	if d.at < 0 {
+		panic("report: newJSONDoc: " + doc.Type().String() + " has no member " + stream)
+	}
+	d.obj = objectWriter{e: &d.e, depth: 0}
+	d.arr = arrayWriter{e: &d.e, depth: 1}
+	return d
+}
+
+// begin writes the members before the stream and the stream's name.
+func (d *jsonDoc) begin() error {
+	if d.begun {
+		return nil
+	}
+	d.begun = true
+	for _, f := range d.fields[:d.at] {
+		if err := d.obj.field(d.doc.Field(f.index), f); err != nil {
+			return err
+		}
+	}
+	d.obj.name(d.fields[d.at].name)
+	return nil
+}
+
+// elem writes the next element of the stream.
+func (d *jsonDoc) elem(v reflect.Value) error {
+	if err := d.begin(); err != nil {
+		return err
+	}
+	if err := d.arr.elem(v); err != nil {
+		return fmt.Errorf("%s: %w", d.fields[d.at].name, err)
+	}
+	return nil
+}
+
+// end closes the stream, writes the members after it, the closing brace and
+// a newline, and passes everything left on to the writer.
+func (d *jsonDoc) end() error {
+	if err := d.begin(); err != nil {
+		return err
+	}
+	d.arr.end()
+	for _, f := range d.fields[d.at+1:] {
+		if err := d.obj.field(d.doc.Field(f.index), f); err != nil {
+			return err
+		}
+	}
+	d.obj.end()
+	d.e.buf.WriteByte('\n')
+	return d.e.flush()
 }
 
 // ReadJSON reads a report.json written by WriteJSON, restoring the exact

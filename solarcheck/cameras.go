@@ -10,10 +10,43 @@ import (
 	"github.com/gnomon-forensics/gnomon/solarcheck/clock"
 )
 
+// ClockInput is what a camera's clock model needs of one photo. It is a
+// few numbers, not the whole finding, so that a batch of any size can be
+// modelled while its findings wait on disk (internal/audit spools them).
+type ClockInput struct {
+	Path    string // the photo's Finding.Path
+	Camera  string // Finding.Camera
+	Claimed time.Time
+	// Offset is the photo's own time evidence (claimed minus evidence), if
+	// HasEvidence; photos without keep their place in the order checks.
+	Offset      Interval
+	HasEvidence bool
+	// StepSec and Verdict decide whether the evidence joins the fit: a
+	// photo that alone shows a step the rest of the camera does not share
+	// stays out of it.
+	StepSec float64
+	Verdict Verdict
+}
+
+// ClockInput returns what f's camera model needs of it; false when f names
+// no camera or claims no time, so it has no place in any camera's model.
+func (f *Finding) ClockInput() (ClockInput, bool) {
+	if f.Camera == "" || !f.HasClaimed {
+		return ClockInput{}, false
+	}
+	in := ClockInput{Path: f.Path, Camera: f.Camera, Claimed: f.Claimed, StepSec: f.Basis.StepSec, Verdict: f.Verdict}
+	if hasTimeEvidence(f) {
+		in.Offset, in.HasEvidence = *f.Offset, true
+	}
+	return in, true
+}
+
 // Camera is one camera's clock across the batch.
 type Camera struct {
-	ID     string
-	Photos []string // paths, sorted by claimed time
+	ID string
+	// Inputs are the camera's photos, sorted by claimed time; Model.Photos
+	// and InFit follow the same order.
+	Inputs []ClockInput
 	// Model is the fitted clock; Fitted is false when no photo of the
 	// camera had a time witness (the model then holds only order checks).
 	Model  clock.Model
@@ -21,33 +54,35 @@ type Camera struct {
 	// StepSec is the step (zone, 12 h) shared by most of the camera's
 	// photos with evidence; 0 when its clock keeps the place's zone.
 	StepSec float64
-	// InFit names the photos whose witnesses the fit used (paths).
-	InFit map[string]bool
+	// InFit says which inputs' evidence the fit used.
+	InFit []bool
 	Note  string
 }
 
-// ModelCameras fits every camera's clock from the time witnesses of its
-// photos, then updates the findings (in place):
-//
-//   - photos without a witness of their own get the camera's corrected window;
-//   - a photo whose own witnesses are too wide to tell, but whose camera's
-//     clock is known to be off at that time, is judged on the camera's clock;
-//   - a photo that disagrees with its camera is flagged as a possible edit;
-//     one that alone shows a zone step is re-judged as a clock offset, since a
-//     zone setting belongs to the camera, not to one photo;
-//   - capture order that contradicts the file numbering is flagged.
-//
-// Photos that show a daylight-saving or 12-hour step the rest of the camera
-// does not share keep their verdict and stay out of the fit: such slips
-// happen to single photos (a clock changed after a battery swap, a change
-// of season). Cameras are returned sorted by id.
-func (x *Examiner) ModelCameras(findings []Finding) []Camera {
-	byCam := map[string][]int{}
-	for i, f := range findings {
-		if f.Camera == "" || !f.HasClaimed {
-			continue
-		}
-		byCam[f.Camera] = append(byCam[f.Camera], i)
+// Cameras are the batch's fitted cameras, indexed so that each finding can
+// be given its camera's conclusions on its own (Apply), in any order.
+type Cameras struct {
+	List []Camera // sorted by id
+	// of[j] locates the j-th input given to FitCameras in its camera's
+	// model; breaks[j] are the order breaks it is the later photo of.
+	// A slice, not a map keyed by path: it costs 8 bytes a photo.
+	of     []photoRef
+	breaks map[int][]int
+}
+
+// photoRef locates a photo in its camera's model: indexes into List and
+// into that camera's Model.Photos (and Inputs).
+type photoRef struct{ camera, photo int32 }
+
+// FitCameras fits every camera's clock from the time evidence of its photos
+// (see Finding.ClockInput). A photo with evidence joins its camera's fit
+// unless it shows a daylight-saving or 12-hour step the rest of the camera
+// does not share: such slips happen to single photos (a clock changed
+// after a battery swap, a change of season).
+func (x *Examiner) FitCameras(inputs []ClockInput) *Cameras {
+	byCam := map[string][]int{} // indexes into inputs
+	for j, in := range inputs {
+		byCam[in.Camera] = append(byCam[in.Camera], j)
 	}
 	ids := make([]string, 0, len(byCam))
 	for id := range byCam {
@@ -55,21 +90,24 @@ func (x *Examiner) ModelCameras(findings []Finding) []Camera {
 	}
 	sort.Strings(ids)
 
-	var cams []Camera
+	cs := &Cameras{of: make([]photoRef, len(inputs)), breaks: map[int][]int{}}
 	for _, id := range ids {
 		idx := byCam[id]
-		sort.SliceStable(idx, func(a, b int) bool { return findings[idx[a]].Claimed.Before(findings[idx[b]].Claimed) })
-		cam := Camera{ID: id, StepSec: dominantStep(findings, idx), InFit: map[string]bool{}}
-		pts := make([]clock.Point, len(idx))
-		for k, i := range idx {
-			f := &findings[i]
-			cam.Photos = append(cam.Photos, f.Path)
-			pts[k] = clock.Point{Key: f.Path, ClaimedUTC: f.Claimed, FileName: path.Base(f.Path)}
-			if hasTimeEvidence(f) && (f.stepSec == cam.StepSec || f.Verdict == ZoneSlip) {
+		sort.SliceStable(idx, func(a, b int) bool { return inputs[idx[a]].Claimed.Before(inputs[idx[b]].Claimed) })
+		ins := make([]ClockInput, len(idx))
+		for k, j := range idx {
+			ins[k] = inputs[j]
+			cs.of[j] = photoRef{camera: int32(len(cs.List)), photo: int32(k)}
+		}
+		cam := Camera{ID: id, Inputs: ins, StepSec: dominantStep(ins), InFit: make([]bool, len(ins))}
+		pts := make([]clock.Point, len(ins))
+		for k, in := range ins {
+			pts[k] = clock.Point{Key: in.Path, ClaimedUTC: in.Claimed, FileName: path.Base(in.Path)}
+			if in.HasEvidence && (in.StepSec == cam.StepSec || in.Verdict == ZoneSlip) {
 				pts[k].HasEvidence = true
-				pts[k].OffsetSec = f.Offset.Sec
-				pts[k].HalfWidth95Sec = f.Offset.HalfWidth()
-				cam.InFit[f.Path] = true
+				pts[k].OffsetSec = in.Offset.Sec
+				pts[k].HalfWidth95Sec = in.Offset.HalfWidth()
+				cam.InFit[k] = true
 			}
 		}
 		m, err := clock.Fit(pts, clock.Options{})
@@ -82,10 +120,71 @@ func (x *Examiner) ModelCameras(findings []Finding) []Camera {
 		default:
 			cam.Fitted = true
 		}
-		x.applyModel(findings, idx, cam)
-		cams = append(cams, cam)
+		if len(m.OrderBreaks) > 0 {
+			byPath := map[string]int{}
+			for _, j := range idx {
+				byPath[inputs[j].Path] = j
+			}
+			for b, ob := range m.OrderBreaks {
+				if j, ok := byPath[ob.Later]; ok {
+					cs.breaks[j] = append(cs.breaks[j], b)
+				}
+			}
+		}
+		cs.List = append(cs.List, cam)
 	}
-	return cams
+	return cs
+}
+
+// Apply writes f's camera's conclusions into f:
+//
+//   - a photo without a witness of its own gets the camera's corrected window;
+//   - a photo whose own witnesses are too wide to tell, but whose camera's
+//     clock is known to be off at that time, is judged on the camera's clock;
+//   - a photo that disagrees with its camera is flagged as a possible edit;
+//     one that alone shows a zone step is re-judged as a clock offset, since a
+//     zone setting belongs to the camera, not to one photo;
+//   - capture order that contradicts the file numbering is flagged.
+//
+// j is the index, in the slice given to FitCameras, of f's ClockInput. A
+// finding whose camera was not fitted keeps its verdict.
+func (x *Examiner) Apply(cs *Cameras, j int, f *Finding) {
+	ref := cs.of[j]
+	cam := &cs.List[ref.camera]
+	for _, b := range cs.breaks[j] {
+		ob := cam.Model.OrderBreaks[b]
+		f.check(Check{Kind: KindShotOrder, Status: Conflicts, Figure: float64(ob.LaterNumber), HasFigure: true, Unit: "file number",
+			Sentence: fmt.Sprintf("By its claimed time this photo (file number %d) comes after %s (file number %d): the camera's numbering says otherwise. One of the two times may have been changed, or the files renamed.", ob.LaterNumber, ob.Earlier, ob.EarlierNumber)})
+	}
+	if !cam.Fitted {
+		return
+	}
+	p := cam.Model.Photos[ref.photo]
+	switch {
+	case p.Outlier:
+		f.check(Check{Kind: KindCameraClock, Status: Conflicts, Figure: p.ResidualSec, HasFigure: true, Unit: "s",
+			Sentence: fmt.Sprintf("This photo's time disagrees with the other photos of its camera by %s beyond the camera's fitted clock: a possible edit of the timestamp, or a wrong measurement. A flag for review, not a finding of edit.", signedDuration(p.ResidualSec))})
+		if f.Verdict == ZoneSlip && f.Basis.StepSec != cam.StepSec {
+			f.Rejected = append(f.Rejected, Alternative{Verdict: ZoneSlip,
+				Reason: fmt.Sprintf("%s is a whole zone step, but a zone setting applies to every photo of a camera and the other photos of this camera do not share it", signedDuration(f.Basis.StepSec))})
+			f.Verdict, f.Basis.StepSec = ClockOffset, 0
+			f.Explanation = fmt.Sprintf("The claimed time is off by %s (95 %% interval %s to %s) while the other photos of the same camera are not: the time of this photo alone was changed, or its clock was set by hand. A possible edit, for review.",
+				signedDuration(f.Offset.Sec), signedDuration(f.Offset.LowSec), signedDuration(f.Offset.HighSec))
+		}
+	case hasTimeEvidence(f) && p.Segment >= 0:
+		f.check(Check{Kind: KindCameraClock, Status: Agrees, Figure: p.ResidualSec, HasFigure: true, Unit: "s",
+			Sentence: fmt.Sprintf("This photo agrees with its camera's fitted clock (residual %s).", signedDuration(p.ResidualSec))})
+		if f.Verdict == Consistent {
+			x.judgeByCamera(f, cam.Model.Segments[p.Segment])
+		}
+	case f.Offset == nil && p.Segment >= 0 && f.Verdict == Unverified:
+		f.FromCamera = true
+		f.Earliest = p.Corrected.Add(-p.HalfWidth95)
+		f.Latest = p.Corrected.Add(p.HalfWidth95)
+		seg := cam.Model.Segments[p.Segment]
+		f.Explanation = fmt.Sprintf("No witness of its own; by its camera's fitted clock (offset %s at %s, drift %+.1f s/day) the photo was taken between %s and %s UTC.",
+			signedDuration(seg.OffsetSec), seg.T0.Format(time.DateOnly), seg.DriftSecPerDay, f.Earliest.Format(time.DateTime), f.Latest.Format(time.DateTime))
+	}
 }
 
 // hasTimeEvidence reports whether f's offset comes from its own witnesses
@@ -97,11 +196,11 @@ func hasTimeEvidence(f *Finding) bool {
 // dominantStep is the step most of a camera's photos with evidence show;
 // ties go to the smaller step, so a camera is taken to keep the place's
 // zone unless most of its photos say otherwise.
-func dominantStep(findings []Finding, idx []int) float64 {
+func dominantStep(ins []ClockInput) float64 {
 	count := map[float64]int{}
-	for _, i := range idx {
-		if f := &findings[i]; hasTimeEvidence(f) {
-			count[f.stepSec]++
+	for _, in := range ins {
+		if in.HasEvidence {
+			count[in.StepSec]++
 		}
 	}
 	best, n := 0.0, -1
@@ -120,58 +219,10 @@ func abs(v float64) float64 {
 	return v
 }
 
-// applyModel writes the camera's conclusions into its photos' findings.
-func (x *Examiner) applyModel(findings []Finding, idx []int, cam Camera) {
-	byKey := map[string]*Finding{}
-	for _, i := range idx {
-		byKey[findings[i].Path] = &findings[i]
-	}
-	for _, ob := range cam.Model.OrderBreaks {
-		if f := byKey[ob.Later]; f != nil {
-			f.check(Check{Kind: KindShotOrder, Status: Conflicts, Figure: float64(ob.LaterNumber), HasFigure: true, Unit: "file number",
-				Sentence: fmt.Sprintf("By its claimed time this photo (file number %d) comes after %s (file number %d): the camera's numbering says otherwise. One of the two times may have been changed, or the files renamed.", ob.LaterNumber, ob.Earlier, ob.EarlierNumber)})
-		}
-	}
-	if !cam.Fitted {
-		return
-	}
-	for _, p := range cam.Model.Photos {
-		f := byKey[p.Key]
-		if f == nil {
-			continue
-		}
-		switch {
-		case p.Outlier:
-			f.check(Check{Kind: KindCameraClock, Status: Conflicts, Figure: p.ResidualSec, HasFigure: true, Unit: "s",
-				Sentence: fmt.Sprintf("This photo's time disagrees with the other photos of its camera by %s beyond the camera's fitted clock: a possible edit of the timestamp, or a wrong measurement. A flag for review, not a finding of edit.", signedDuration(p.ResidualSec))})
-			if f.Verdict == ZoneSlip && f.stepSec != cam.StepSec {
-				f.Rejected = append(f.Rejected, Alternative{Verdict: ZoneSlip,
-					Reason: fmt.Sprintf("%s is a whole zone step, but a zone setting applies to every photo of a camera and the other photos of this camera do not share it", signedDuration(f.stepSec))})
-				f.Verdict, f.stepSec = ClockOffset, 0
-				f.Explanation = fmt.Sprintf("The claimed time is off by %s (95 %% interval %s to %s) while the other photos of the same camera are not: the time of this photo alone was changed, or its clock was set by hand. A possible edit, for review.",
-					signedDuration(f.Offset.Sec), signedDuration(f.Offset.LowSec), signedDuration(f.Offset.HighSec))
-			}
-		case hasTimeEvidence(f) && p.Segment >= 0:
-			f.check(Check{Kind: KindCameraClock, Status: Agrees, Figure: p.ResidualSec, HasFigure: true, Unit: "s",
-				Sentence: fmt.Sprintf("This photo agrees with its camera's fitted clock (residual %s).", signedDuration(p.ResidualSec))})
-			if f.Verdict == Consistent {
-				x.judgeByCamera(f, cam.Model.Segments[p.Segment], cam)
-			}
-		case f.Offset == nil && p.Segment >= 0 && f.Verdict == Unverified:
-			f.FromCamera = true
-			f.Earliest = p.Corrected.Add(-p.HalfWidth95)
-			f.Latest = p.Corrected.Add(p.HalfWidth95)
-			seg := cam.Model.Segments[p.Segment]
-			f.Explanation = fmt.Sprintf("No witness of its own; by its camera's fitted clock (offset %s at %s, drift %+.1f s/day) the photo was taken between %s and %s UTC.",
-				signedDuration(seg.OffsetSec), seg.T0.Format(time.DateOnly), seg.DriftSecPerDay, f.Earliest.Format(time.DateTime), f.Latest.Format(time.DateTime))
-		}
-	}
-}
-
 // judgeByCamera re-judges a photo whose own witnesses allow no clock error
 // when its camera's fitted clock, at the photo's time, excludes zero: the
 // camera's many photos say more than one wide interval.
-func (x *Examiner) judgeByCamera(f *Finding, seg clock.Segment, cam Camera) {
+func (x *Examiner) judgeByCamera(f *Finding, seg clock.Segment) {
 	off, half := seg.OffsetAt(f.Claimed)
 	if abs(off) <= half {
 		return

@@ -109,7 +109,7 @@ func (x *Examiner) checkShadows(f *Finding, p Photo) {
 		c.Sentence += " The measurements fit the sun only with their stated uncertainties doubled; the window is given on that basis."
 	}
 	f.check(c)
-	f.shadowOffset = &iv
+	f.Basis.ShadowOffset = &iv
 }
 
 // seasonCheck runs when no time within ±14 h of the claim fits the shadows:
@@ -130,7 +130,7 @@ func (x *Examiner) seasonCheck(f *Finding, q invert.Query) {
 		c.Figure, c.HasFigure, c.Unit = days, true, "days"
 		c.Sentence = fmt.Sprintf("No time on or near the claimed date fits the shadows; the nearest date on which the sun stood so is %s (%.0f days from the claim), which points to a different season.",
 			near.Best.Format("2006-01-02"), math.Abs(days))
-		f.seasonOff = true
+		f.Basis.SeasonOff = true
 		f.BestFit = &SunSample{Time: near.Best, AzimuthDeg: near.AzimuthDeg, AltitudeDeg: near.AltitudeDeg}
 	}
 	f.check(c)
@@ -189,7 +189,7 @@ func (x *Examiner) checkGPSClock(f *Finding, rec exifread.Record) {
 		c.Sentence = fmt.Sprintf("The claimed instant is %s from the GPS clock.", signedDuration(off))
 	}
 	f.check(c)
-	f.gpsOffset = &iv
+	f.Basis.GPSOffset = &iv
 }
 
 // checkOffsetTag compares the camera's own offset tag with the offset of the

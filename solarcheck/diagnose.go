@@ -25,7 +25,7 @@ type hypothesis struct {
 // the witnesses give (tested against the competing explanations), then the
 // light, then nothing.
 func diagnose(f *Finding, x *Examiner) {
-	defer func() { f.Explanation += f.placeNote }()
+	defer func() { f.Explanation += f.Basis.PlaceNote }()
 	iv, source := timeEvidence(f)
 
 	if c, ok := f.Check(KindShadowPlace); ok && c.Status == Conflicts {
@@ -36,14 +36,14 @@ func diagnose(f *Finding, x *Examiner) {
 		}
 		return
 	}
-	if f.seasonOff {
+	if f.Basis.SeasonOff {
 		c, _ := f.Check(KindShadowTime)
 		f.Verdict = SeasonMismatch
 		f.Explanation = c.Sentence
 		return
 	}
 	if iv == nil {
-		if f.lightOff {
+		if f.Basis.LightOff {
 			c, _ := f.Check(KindLight)
 			f.Verdict = LightMismatch
 			f.Explanation = c.Sentence + " No other witness fixes the time; this is a hint, not proof."
@@ -67,7 +67,7 @@ func diagnose(f *Finding, x *Examiner) {
 // narrower (the GPS clock, as a rule) is used; when they contradict each
 // other, the narrower is used and the contradiction is said.
 func timeEvidence(f *Finding) (*Interval, string) {
-	s, g := f.shadowOffset, f.gpsOffset
+	s, g := f.Basis.ShadowOffset, f.Basis.GPSOffset
 	switch {
 	case s == nil && g == nil:
 		return nil, ""
@@ -114,7 +114,7 @@ func (x *Examiner) judgeOffset(f *Finding, iv Interval, source string) {
 	}
 	ivText := fmt.Sprintf("%s (95 %% interval %s to %s, from %s)", signedDuration(iv.Sec), signedDuration(iv.LowSec), signedDuration(iv.HighSec), source)
 	if len(accepted) == 0 {
-		f.stepSec = 0
+		f.Basis.StepSec = 0
 		f.Verdict = ClockOffset
 		f.Explanation = fmt.Sprintf("The claimed time is off by %s, which is not a time-zone, daylight-saving or 12-hour step: the camera clock was wrong, or the time was changed.", ivText)
 		return
@@ -132,7 +132,7 @@ func (x *Examiner) judgeOffset(f *Finding, iv Interval, source string) {
 		return rank(accepted[i].verdict) < rank(accepted[j].verdict)
 	})
 	h := accepted[0]
-	f.stepSec = h.sec
+	f.Basis.StepSec = h.sec
 	for _, o := range accepted[1:] {
 		if o.verdict != h.verdict {
 			f.Rejected = append(f.Rejected, Alternative{Verdict: o.verdict,

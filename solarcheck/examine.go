@@ -131,7 +131,7 @@ func (x *Examiner) Examine(p Photo) Finding {
 		if len(rec.Warnings) > 0 {
 			f.Explanation += " The reader noted: " + strings.Join(rec.Warnings, "; ") + "."
 		}
-		f.Explanation += f.placeNote
+		f.Explanation += f.Basis.PlaceNote
 		return f
 	}
 
@@ -247,7 +247,7 @@ func (x *Examiner) place(f *Finding, p Photo) {
 	g := p.Record.GPS
 	if g.Position != nil && !g.Position.Valid {
 		f.GPSRejected = fmt.Sprintf("%q: %s", g.Position.Raw, g.Position.Invalid)
-		f.placeNote = " The GPS position " + f.GPSRejected + " was not used."
+		f.Basis.PlaceNote = " The GPS position " + f.GPSRejected + " was not used."
 	}
 	if g.Position != nil && g.Position.Valid && g.Position.LatDeg != nil && g.Position.LonDeg != nil {
 		f.LatDeg, f.LonDeg, f.HasPlace, f.PlaceSource = *g.Position.LatDeg, *g.Position.LonDeg, true, "gps"

@@ -280,7 +280,13 @@ func TestDriftRecovered(t *testing.T) {
 		s := scene{trueUTC: truth, wall: truth.Add(secDur(off)).In(zurich), lat: 46.2, lon: 6.15, gps: true, gpsTime: ptr(truth.Add(-time.Duration(rng.IntN(5)) * time.Second)), camera: "Drifter"}
 		fs = append(fs, x.Examine(s.photo(t, "d/IMG_"+string(rune('A'+i))+".jpg")))
 	}
-	cams := x.ModelCameras(fs)
+	var ins []ClockInput
+	for i := range fs {
+		if in, ok := fs[i].ClockInput(); ok {
+			ins = append(ins, in)
+		}
+	}
+	cams := x.FitCameras(ins).List
 	if len(cams) != 1 || !cams[0].Fitted {
 		t.Fatalf("cameras: %+v", cams)
 	}

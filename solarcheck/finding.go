@@ -165,13 +165,22 @@ type Finding struct {
 	// clock model rather than the photo's own witnesses.
 	FromCamera bool
 
-	// Time witnesses gathered by the checks, for the diagnosis.
-	shadowOffset *Interval // from the shadows, nil without
-	gpsOffset    *Interval // from the GPS clock, nil without
-	seasonOff    bool      // shadows fit another season only
-	lightOff     bool      // the exposure conflicts with the light at the claim
-	stepSec      float64   // the step (zone, DST, 12 h) the verdict names; 0 for none
-	placeNote    string    // why a GPS position in the file was not used, as a sentence
+	// Basis is what the diagnosis weighed. It is part of the finding (not
+	// hidden) so that a finding written to disk and read back, as the audit
+	// does on a large batch between examining and modelling the cameras, is
+	// judged exactly as one kept in memory.
+	Basis Basis
+}
+
+// Basis is the time evidence the checks gathered about one photo, for the
+// diagnosis and for its camera's model.
+type Basis struct {
+	ShadowOffset *Interval // from the shadows, nil without
+	GPSOffset    *Interval // from the GPS clock, nil without
+	SeasonOff    bool      // shadows fit another season only
+	LightOff     bool      // the exposure conflicts with the light at the claim
+	StepSec      float64   // the step (zone, DST, 12 h) the verdict names; 0 for none
+	PlaceNote    string    // why a GPS position in the file was not used, as a sentence
 }
 
 // check appends c to f's checks.

@@ -35,7 +35,7 @@ func (x *Examiner) checkLight(f *Finding, rec exifread.Record) {
 		c.Status = Agrees
 	case r.OffEV > 0:
 		c.Status = Conflicts
-		f.lightOff = true
+		f.Basis.LightOff = true
 	default:
 		c.Status = Open
 	}

@@ -12,6 +12,7 @@ import (
 	"path/filepath"
 	"runtime"
 	"runtime/debug"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -256,7 +257,7 @@ func doAudit(ctx context.Context, e env, cfg auditConfig) (sum summary, err erro
 	go func() { stDone <- selftest.Run(zones) }()
 	x := solarcheck.NewExaminer(solarcheck.Options{Zones: zones})
 
-	opt := audit.Options{Workers: cfg.workers, Examiner: x, Sheet: sh}
+	opt := audit.Options{Workers: cfg.workers, Examiner: x, Sheet: sh, SpoolDir: cfg.out}
 	// Thumbnails are made while each file is read, except on a batch too
 	// large for every photo to get a card: then only the carded photos get
 	// one, after the run (audit.LateThumbnails).
@@ -277,6 +278,7 @@ func doAudit(ctx context.Context, e env, cfg auditConfig) (sum summary, err erro
 	if err != nil {
 		return sum, err
 	}
+	defer res.Close()
 	var st selftest.Result
 	select {
 	case st = <-stDone:
@@ -302,33 +304,27 @@ func doAudit(ctx context.Context, e env, cfg auditConfig) (sum summary, err erro
 		Magnetic:    "WMM2025 (NOAA NCEI and BGS), valid 2025.0-2030.0",
 		SelfTest:    selfTestReport(st),
 	}
-	doc := audit.Document(res, h, x, cfg.formats["html"])
-	if ctx.Err() != nil {
-		return sum, ctx.Err()
-	}
+	head := audit.Head(res, h)
 	if lateThumbs {
-		if err := audit.LateThumbnails(ctx, res, doc, cfg.workers, opt.Read, thumbWriter(thumbDir)); err != nil {
+		if err := audit.LateThumbnails(ctx, res, cfg.workers, opt.Read, thumbWriter(thumbDir)); err != nil {
 			return sum, err
 		}
 	}
+	var names []string
 	for _, f := range allFormats {
-		if !cfg.formats[f] {
-			continue
-		}
-		name := "report." + f
-		write := writerFor(f, doc)
-		// A report that takes long to write (the HTML page of a large
-		// batch) stops at the next write once the run is interrupted.
-		if err := report.WriteFileAtomic(filepath.Join(cfg.out, name), func(w io.Writer) error { return write(ctxWriter{ctx, w}) }); err != nil {
-			return sum, fmt.Errorf("writing %s: %w", name, err)
-		}
-		sum.written = append(sum.written, name)
-		if ctx.Err() != nil {
-			return sum, ctx.Err()
+		if cfg.formats[f] {
+			names = append(names, "report."+f)
 		}
 	}
+	// Every report is written in one pass over the photos; a report is
+	// named in sum.written as soon as it may exist, so that a failure
+	// removes it.
+	sum.written = names
+	if err := writeReports(ctx, cfg.out, names, res, head); err != nil {
+		return sum, err
+	}
 
-	sum.files, sum.cameras, sum.byVerdict, sum.out = len(doc.Photos), doc.Run.Counts.Cameras, doc.Run.Counts.ByVerdict, cfg.out
+	sum.files, sum.cameras, sum.byVerdict, sum.out = head.Run.Counts.Files, head.Run.Counts.Cameras, head.Run.Counts.ByVerdict, cfg.out
 	sum.unreadable = sum.byVerdict[string(solarcheck.Unreadable)]
 	sum.sheetProblems = len(res.SheetProblems)
 	sum.selfTestOK = st.Passed
@@ -355,16 +351,77 @@ func (c ctxWriter) Write(p []byte) (int, error) {
 	return c.w.Write(p)
 }
 
-func writerFor(format string, doc *report.Audit) func(io.Writer) error {
-	switch format {
-	case "json":
-		return func(w io.Writer) error { return report.WriteJSON(w, doc) }
-	case "csv":
-		return func(w io.Writer) error { return report.WriteCSV(w, doc) }
-	case "geojson":
-		return func(w io.Writer) error { return report.WriteGeoJSON(w, doc) }
+// writeReports writes the named reports into dir in one pass over the
+// photos: each file has its own goroutine and report.Sink, fed through a
+// short channel, and is put in place by report.WriteFileAtomic only once
+// complete. The photos stream through; none is held beyond the HTML
+// page's cards. On any error (an interrupt included) every writer stops,
+// leaving no partial file.
+func writeReports(ctx context.Context, dir string, names []string, res *audit.Result, head *report.Audit) error {
+	ctx, cancel := context.WithCancelCause(ctx)
+	defer cancel(nil)
+	carded := res.Carded()
+	feeds := make([]chan *report.Photo, len(names))
+	errs := make(chan error, len(names))
+	for i, name := range names {
+		feeds[i] = make(chan *report.Photo, 64)
+		go func(name string, feed <-chan *report.Photo) {
+			err := report.WriteFileAtomic(filepath.Join(dir, name), func(w io.Writer) error {
+				// A report stops at its next write once the run is
+				// interrupted.
+				cw := ctxWriter{ctx, w}
+				var s report.Sink
+				switch name {
+				case "report.json":
+					s = report.NewJSONSink(cw, head)
+				case "report.csv":
+					s = report.NewCSVSink(cw)
+				case "report.geojson":
+					s = report.NewGeoJSONSink(cw)
+				default:
+					s = report.NewHTMLSink(cw, head, carded)
+				}
+				for p := range feed {
+					if err := s.Photo(p); err != nil {
+						return err
+					}
+				}
+				if err := ctx.Err(); err != nil {
+					return err // the feed was cut short
+				}
+				return s.Close()
+			})
+			if err != nil {
+				err = fmt.Errorf("writing %s: %w", name, err)
+				cancel(err)
+				for range feed { // let the producer finish its pass
+				}
+			}
+			errs <- err
+		}(name, feeds[i])
 	}
-	return func(w io.Writer) error { return report.WriteHTML(w, doc) }
+	withHTML := slices.Contains(names, "report.html")
+	feedErr := res.Photos(ctx, withHTML, func(p *report.Photo) error {
+		for _, f := range feeds {
+			select {
+			case f <- p:
+			case <-ctx.Done():
+				return context.Cause(ctx)
+			}
+		}
+		return nil
+	})
+	if feedErr != nil {
+		cancel(feedErr) // no writer may finish a report that lacks photos
+	}
+	for _, f := range feeds {
+		close(f)
+	}
+	for range names {
+		<-errs // a failed writer has set the cause already
+	}
+	// The cause is the interrupt, the first failed writer, or the feed.
+	return context.Cause(ctx)
 }
 
 // loadSheet parses the measurement sheet, read-only, and hashes it.

@@ -64,10 +64,19 @@ func TestAuditLeavesEvidenceUntouched(t *testing.T) {
 			t.Errorf("%s changed: %s → %s", p, s, after[p])
 		}
 	}
-	for _, f := range []string{"report.json", "report.csv", "report.geojson", "report.html"} {
-		if _, err := os.Stat(filepath.Join(out, f)); err != nil {
-			t.Errorf("missing %s: %v", f, err)
-		}
+	// The report folder holds the four reports and the thumbnails, and
+	// nothing else: no spool or temporary file is left behind.
+	des, err := os.ReadDir(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got []string
+	for _, de := range des {
+		got = append(got, de.Name())
+	}
+	want := []string{"report.csv", "report.geojson", "report.html", "report.json", "thumbnails"}
+	if strings.Join(got, " ") != strings.Join(want, " ") {
+		t.Errorf("report folder holds %q, want %q", got, want)
 	}
 }
 

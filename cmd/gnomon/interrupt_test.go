@@ -13,8 +13,10 @@ import (
 	"testing"
 	"time"
 
+	"github.com/gnomon-forensics/gnomon/internal/audit"
 	"github.com/gnomon-forensics/gnomon/internal/benchtools/smallset"
-	"github.com/gnomon-forensics/gnomon/report"
+	"github.com/gnomon-forensics/gnomon/solarcheck"
+	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
 )
 
 // TestAuditInterrupt sends SIGINT to a real gnomon process in the middle of
@@ -132,23 +134,45 @@ func TestAuditInterrupt(t *testing.T) {
 	}
 }
 
-// TestCtxWriterStopsReports: once the run is interrupted, every report
-// writer fails at its next write with context.Canceled (which the command
-// reports as an interruption) and WriteFileAtomic leaves neither the report
-// nor its temporary file.
-func TestCtxWriterStopsReports(t *testing.T) {
-	doc := &report.Audit{Schema: report.SchemaID, Photos: []report.Photo{{Path: "a.jpg", Verdict: "unverified"}}}
-	ctx, cancel := context.WithCancel(context.Background())
-	cancel()
+// TestWriteReportsStops: once the run is interrupted, every report writer
+// fails at its next write with context.Canceled (which the command reports
+// as an interruption) and leaves neither its report nor a temporary file;
+// a writer that cannot write stops the others, and its error is the one
+// returned.
+func TestWriteReportsStops(t *testing.T) {
+	evidence := t.TempDir()
+	if _, err := smallset.Write(evidence, 3, smallset.Options{}); err != nil {
+		t.Fatal(err)
+	}
+	entries, err := audit.Walk([]string{evidence})
+	if err != nil {
+		t.Fatal(err)
+	}
+	x := solarcheck.NewExaminer(solarcheck.Options{Zones: zone.NewFinder(nil)})
+	res, err := audit.Run(context.Background(), entries, audit.Options{Examiner: x, SpoolDir: t.TempDir()})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer res.Close()
+	head := audit.Head(res, audit.Header{})
+	var names []string
 	for _, f := range allFormats {
-		dir := t.TempDir()
-		write := writerFor(f, doc)
-		err := report.WriteFileAtomic(filepath.Join(dir, "report."+f), func(w io.Writer) error { return write(ctxWriter{ctx, w}) })
-		if !errors.Is(err, context.Canceled) {
-			t.Errorf("%s: err %v, want context.Canceled", f, err)
-		}
-		if des, _ := os.ReadDir(dir); len(des) != 0 {
-			t.Errorf("%s: left %d files behind", f, len(des))
-		}
+		names = append(names, "report."+f)
+	}
+
+	interrupted, cancel := context.WithCancel(context.Background())
+	cancel()
+	dir := t.TempDir()
+	if err := writeReports(interrupted, dir, names, res, head); !errors.Is(err, context.Canceled) {
+		t.Errorf("interrupted: err %v, want context.Canceled", err)
+	}
+	if des, _ := os.ReadDir(dir); len(des) != 0 {
+		t.Errorf("interrupted: left %d files behind", len(des))
+	}
+
+	gone := filepath.Join(t.TempDir(), "missing")
+	err = writeReports(context.Background(), gone, names, res, head)
+	if err == nil || errors.Is(err, context.Canceled) || !strings.Contains(err.Error(), "writing report.") {
+		t.Errorf("unwritable folder: err %v, want the writer's own error", err)
 	}
 }

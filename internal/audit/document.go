@@ -4,7 +4,6 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"sort"
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/exifread"
@@ -30,10 +29,9 @@ type Header struct {
 	Notes       []string
 }
 
-// Document builds the report document from a finished run. withSunPaths
-// adds a day of sun positions to each photo that report.html gives a card
-// (report.Carded; for the HTML charts only, not part of the JSON).
-func Document(res *Result, h Header, x *solarcheck.Examiner, withSunPaths bool) *report.Audit {
+// Head builds the report's header: everything but the photos, which
+// Result.Photos hands out one at a time (report.Audit.Photos stays empty).
+func Head(res *Result, h Header) *report.Audit {
 	a := &report.Audit{
 		Schema: report.SchemaID,
 		Tool:   h.Tool,
@@ -51,55 +49,59 @@ func Document(res *Result, h Header, x *solarcheck.Examiner, withSunPaths bool) 
 			SelfTest:       h.SelfTest,
 			SheetErrors:    nonNil(res.SheetProblems),
 			Notes:          nonNil(h.Notes),
-			Counts:         report.Counts{ByVerdict: map[string]int{}},
+			Counts:         report.Counts{Files: len(res.Verdicts), ByVerdict: map[string]int{}},
 		},
-		Photos:  make([]report.Photo, 0, len(res.Items)),
+		Photos:  []report.Photo{},
 		Cameras: []report.Camera{},
 	}
-	item := make([]int, 0, len(res.Items)) // item[k]: the item behind a.Photos[k]
-	for i := range res.Items {
-		p := photo(&res.Items[i])
-		a.Photos = append(a.Photos, p)
-		item = append(item, i)
-		a.Run.Counts.ByVerdict[p.Verdict]++
+	for _, v := range res.Verdicts {
+		a.Run.Counts.ByVerdict[v]++
 	}
-	a.Run.Counts.Files = len(a.Photos)
-	sort.Stable(byPhotoPath{a.Photos, item})
-	if withSunPaths {
-		// Only the photos that get a card on the page are charted: a day
-		// of sun positions for each of 100,000 photos would be hundreds of
-		// megabytes that the page does not show.
-		for k, carded := range report.Carded(a.Photos) {
-			if !carded {
-				continue
-			}
-			for _, s := range x.SunPath(&res.Items[item[k]].Finding) {
-				a.Photos[k].SunPath = append(a.Photos[k].SunPath, sunAt(s))
-			}
-		}
-	}
-	byPath := map[string]*solarcheck.Finding{}
-	for i := range res.Items {
-		byPath[res.Items[i].Finding.Path] = &res.Items[i].Finding
-	}
-	for _, c := range res.Cameras {
-		rc := camera(c, byPath)
+	for _, c := range res.Cameras.List {
 		if c.Fitted {
 			a.Run.Counts.Cameras++
 		}
-		a.Cameras = append(a.Cameras, rc)
+		a.Cameras = append(a.Cameras, camera(c))
 	}
 	return a
 }
 
-func photo(it *Item) report.Photo {
-	f, rec := &it.Finding, &it.Record
+// Carded says which photos, in report order, report.html gives a card.
+func (r *Result) Carded() []bool { return report.Carded(r.Verdicts) }
+
+// Photos hands every photo of the report to fn, in report order, each
+// built afresh from the spool (fn may keep it). withSunPaths adds a day of
+// sun positions to each photo that report.html gives a card (for the HTML
+// charts only, not part of the JSON): a day of sun positions for each of
+// 100,000 photos would be hundreds of megabytes that the page does not
+// show. It stops at fn's first error or when ctx is done.
+func (r *Result) Photos(ctx context.Context, withSunPaths bool, fn func(p *report.Photo) error) error {
+	var carded []bool
+	if withSunPaths {
+		carded = r.Carded()
+	}
+	return r.each(ctx, func(k int, s *stored) error {
+		p := photo(r.Entries[r.Order[k]], s)
+		if t, ok := r.late[k]; ok {
+			p.Thumbnail = t
+		}
+		if withSunPaths && carded[k] {
+			for _, sp := range r.x.SunPath(&s.Finding) {
+				p.SunPath = append(p.SunPath, sunAt(sp))
+			}
+		}
+		return fn(&p)
+	})
+}
+
+func photo(e Entry, s *stored) report.Photo {
+	f := &s.Finding
 	p := report.Photo{
-		Path:        it.Entry.Rel,
-		Root:        it.Entry.Root,
-		SHA256:      rec.SHA256,
-		Size:        rec.Size,
-		Container:   rec.Container,
+		Path:        e.Rel,
+		Root:        e.Root,
+		SHA256:      s.SHA256,
+		Size:        s.Size,
+		Container:   s.Container,
 		Camera:      f.Camera,
 		ZoneOptions: []string{},
 		Checks:      []report.Check{},
@@ -107,9 +109,9 @@ func photo(it *Item) report.Photo {
 		Measured:    []report.Measured{},
 		Verdict:     string(f.Verdict),
 		Explanation: f.Explanation,
-		Error:       string(rec.Error),
+		Error:       s.Error,
 		GPSRejected: f.GPSRejected,
-		Thumbnail:   it.Thumbnail,
+		Thumbnail:   s.Thumbnail,
 	}
 	if !f.Wall.IsZero() {
 		p.ClaimedLocal = wallText(f.Wall)
@@ -165,14 +167,11 @@ func photo(it *Item) report.Photo {
 			Altitude: round(d.AltitudeDeg, 3), AltitudeSD: round(d.AltitudeSDDeg, 3), HasAltitude: d.HasAltitude,
 		})
 	}
-	if p.Error == "" && it.Entry.Err != nil {
-		p.Error = it.Entry.Err.Error()
-	}
 	return p
 }
 
-func camera(c solarcheck.Camera, byPath map[string]*solarcheck.Finding) report.Camera {
-	rc := report.Camera{ID: c.ID, Photos: len(c.Photos), Outliers: []string{}, Resets: []string{}, OrderBreaks: []string{}, Points: []report.ClockPoint{}, Note: c.Note}
+func camera(c solarcheck.Camera) report.Camera {
+	rc := report.Camera{ID: c.ID, Photos: len(c.Inputs), Outliers: []string{}, Resets: []string{}, OrderBreaks: []string{}, Points: []report.ClockPoint{}, Note: c.Note}
 	for _, ob := range c.Model.OrderBreaks {
 		rc.OrderBreaks = append(rc.OrderBreaks, fmt.Sprintf("%s (file %d) claims a time after %s (file %d)", ob.Later, ob.LaterNumber, ob.Earlier, ob.EarlierNumber))
 	}
@@ -198,17 +197,17 @@ func camera(c solarcheck.Camera, byPath map[string]*solarcheck.Finding) report.C
 	if len(c.Model.Segments) > 1 {
 		rc.Note = fmt.Sprintf("The clock was reset %d time(s); the figures are for the segment with the most evidence (%d photos).", len(c.Model.Segments)-1, seg.Points)
 	}
-	for _, mp := range c.Model.Photos {
-		f := byPath[mp.Key]
+	for k, mp := range c.Model.Photos {
 		if mp.Outlier {
 			rc.Outliers = append(rc.Outliers, mp.Key)
 		}
-		if f == nil || f.Offset == nil || !c.InFit[mp.Key] {
+		if !c.InFit[k] {
 			continue // the chart shows the evidence the line was fitted to
 		}
+		in := c.Inputs[k]
 		rc.Points = append(rc.Points, report.ClockPoint{
-			Path: mp.Key, ClaimedUTC: stamp(f.Claimed),
-			OffsetS: round(f.Offset.Sec, 1), LowS: round(f.Offset.LowSec, 1), HighS: round(f.Offset.HighSec, 1),
+			Path: in.Path, ClaimedUTC: stamp(in.Claimed),
+			OffsetS: round(in.Offset.Sec, 1), LowS: round(in.Offset.LowSec, 1), HighS: round(in.Offset.HighSec, 1),
 			Outlier: mp.Outlier,
 		})
 	}
@@ -255,56 +254,40 @@ func nonNil(s []string) []string {
 	return s
 }
 
-// byPhotoPath sorts photos by path, then root, keeping item in step.
-type byPhotoPath struct {
-	p    []report.Photo
-	item []int
-}
-
-func (b byPhotoPath) Len() int { return len(b.p) }
-func (b byPhotoPath) Less(i, j int) bool {
-	if b.p[i].Path != b.p[j].Path {
-		return b.p[i].Path < b.p[j].Path
-	}
-	return b.p[i].Root < b.p[j].Root
-}
-func (b byPhotoPath) Swap(i, j int) {
-	b.p[i], b.p[j] = b.p[j], b.p[i]
-	b.item[i], b.item[j] = b.item[j], b.item[i]
-}
-
 // LateThumbnails writes the thumbnails of the photos that report.html gives
-// a card (report.Carded) and that have none yet, after the run: on a batch
-// larger than report.MaxCards the command passes no Options.Thumbs to Run,
-// since which photos get a card is known only once every verdict is, and a
-// thumbnail per photo of 100,000 would fill the report folder with images
-// no page shows. Each file is read again (metadata and preview only, not
-// hashed) by up to workers goroutines; thumbs is Options.Thumbs. It stops
-// early, returning ctx.Err(), when ctx is cancelled.
-func LateThumbnails(ctx context.Context, res *Result, a *report.Audit, workers int, read exifread.Options, thumbs func(int, Entry, *exifread.Record) string) error {
-	type key struct{ root, rel string }
-	itemOf := make(map[key]int, len(res.Items))
-	for i := range res.Items {
-		e := res.Items[i].Entry
-		itemOf[key{e.Root, e.Rel}] = i
-	}
+// a card (Result.Carded), after the run: on a batch larger than
+// report.MaxCards the command passes no Options.Thumbs to Run, since which
+// photos get a card is known only once every verdict is, and a thumbnail
+// per photo of 100,000 would fill the report folder with images no page
+// shows. Each file is read again (metadata and preview only, not hashed) by
+// up to workers goroutines; thumbs is Options.Thumbs. Photos then carries
+// the thumbnails. It stops early, returning ctx.Err(), when ctx is
+// cancelled.
+func LateThumbnails(ctx context.Context, res *Result, workers int, read exifread.Options, thumbs func(int, Entry, *exifread.Record) string) error {
 	read.SkipHash, read.SkipSidecar = true, true
-	var todo []int // indices into a.Photos
-	for k, carded := range report.Carded(a.Photos) {
-		if carded && a.Photos[k].Thumbnail == "" && a.Photos[k].Error == "" {
+	var todo []int // report positions
+	for k, carded := range res.Carded() {
+		if carded && res.Verdicts[k] != string(solarcheck.Unreadable) {
 			todo = append(todo, k)
 		}
 	}
-	return parallel(ctx, len(todo), workers, func(j int) {
-		k := todo[j]
-		i, ok := itemOf[key{a.Photos[k].Root, a.Photos[k].Path}]
-		if !ok {
-			return
-		}
-		e := res.Items[i].Entry
+	names := make([]string, len(todo))
+	err := parallel(ctx, len(todo), workers, func(j int) {
+		i := res.Order[todo[j]]
+		e := res.Entries[i]
 		rec := exifread.ReadFile(e.Abs, read)
 		if rec.Err == nil {
-			a.Photos[k].Thumbnail = thumbs(i, e, &rec)
+			names[j] = thumbs(i, e, &rec)
 		}
 	})
+	if err != nil {
+		return err
+	}
+	res.late = map[int]string{}
+	for j, k := range todo {
+		if names[j] != "" {
+			res.late[k] = names[j]
+		}
+	}
+	return nil
 }

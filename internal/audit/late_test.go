@@ -8,6 +8,7 @@ import (
 
 	"github.com/gnomon-forensics/gnomon/exifread"
 	"github.com/gnomon-forensics/gnomon/internal/benchtools/smallset"
+	"github.com/gnomon-forensics/gnomon/report"
 	"github.com/gnomon-forensics/gnomon/solarcheck"
 	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
 )
@@ -26,11 +27,11 @@ func TestLateThumbnails(t *testing.T) {
 		t.Fatal(err)
 	}
 	x := solarcheck.NewExaminer(solarcheck.Options{Zones: zone.NewFinder(nil)})
-	res, err := Run(context.Background(), entries, Options{Examiner: x})
+	res, err := Run(context.Background(), entries, Options{Examiner: x, SpoolDir: t.TempDir()})
 	if err != nil {
 		t.Fatal(err)
 	}
-	doc := Document(res, Header{}, x, true)
+	defer res.Close()
 	var mu sync.Mutex
 	calls := map[int]string{}
 	thumbs := func(i int, e Entry, rec *exifread.Record) string {
@@ -39,16 +40,20 @@ func TestLateThumbnails(t *testing.T) {
 		calls[i] = e.Rel
 		return "thumbnails/" + strconv.Itoa(i) + ".jpg"
 	}
-	if err := LateThumbnails(context.Background(), res, doc, 2, exifread.Options{}, thumbs); err != nil {
+	if err := LateThumbnails(context.Background(), res, 2, exifread.Options{}, thumbs); err != nil {
 		t.Fatal(err)
 	}
 	if len(calls) != len(entries) {
 		t.Errorf("%d thumbnails written, want %d (one per carded photo)", len(calls), len(entries))
 	}
-	for _, p := range doc.Photos {
+	err = res.Photos(context.Background(), false, func(p *report.Photo) error {
 		if p.Thumbnail == "" {
 			t.Errorf("%s: no thumbnail", p.Path)
 		}
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
 	}
 	for i, rel := range calls {
 		if entries[i].Rel != rel {
@@ -58,8 +63,7 @@ func TestLateThumbnails(t *testing.T) {
 
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
-	doc = Document(res, Header{}, x, false)
-	if err := LateThumbnails(ctx, res, doc, 2, exifread.Options{}, thumbs); err != context.Canceled {
+	if err := LateThumbnails(ctx, res, 2, exifread.Options{}, thumbs); err != context.Canceled {
 		t.Errorf("cancelled: err %v, want context.Canceled", err)
 	}
 }

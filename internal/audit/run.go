@@ -1,15 +1,22 @@
 // Package audit runs the main job end to end: it walks the evidence folders,
 // reads every file (exifread), examines every photo (solarcheck), fits every
-// camera's clock, and builds the report document (report.Audit). It writes
-// nothing but the thumbnails it is asked for, and those only into the folder
-// it is given; the command (cmd/gnomon) decides where the reports go.
+// camera's clock, and hands the photos to the report writers one at a time,
+// in report order. It writes nothing but its spool file and the thumbnails
+// it is asked for, both only into the folders it is given; the command
+// (cmd/gnomon) decides where the reports go.
+//
+// Memory stays flat in the batch size: between examining the photos and
+// writing the reports, the findings wait in a spool file (encoding/gob, in
+// the report folder), and only a few numbers per photo stay in memory (the
+// walk's entry, the camera-model input, the final verdict). A batch of
+// 100,000 files is audited in a few hundred megabytes; see
+// testdata/bench_scale.sh.
 package audit
 
 import (
 	"context"
 	"fmt"
-	"runtime"
-	"sync"
+	"os"
 
 	"github.com/gnomon-forensics/gnomon/exifread"
 	"github.com/gnomon-forensics/gnomon/solarcheck"
@@ -27,6 +34,10 @@ type Options struct {
 	Sheet *sheet.Sheet
 	// Read bounds the metadata reader.
 	Read exifread.Options
+	// SpoolDir is the folder for the spool file that holds the findings
+	// until the reports are written (the report folder; never an input).
+	// The file is removed by Result.Close, or by Run when it fails.
+	SpoolDir string
 	// Thumbs, when set, is called by the worker that read entry i, with its
 	// record, so the caller can write a thumbnail while the file's preview is
 	// at hand. It returns the thumbnail's path relative to the report folder
@@ -36,91 +47,166 @@ type Options struct {
 	Progress func()
 }
 
-// Item is everything known about one entry after the run.
-type Item struct {
-	Entry Entry
-	// Record holds the file facts of the read (path, size, SHA-256, mod
-	// time, container, extension mismatch, error, warnings, orientation);
-	// for a photo that was examined, its metadata lives on in Finding.
-	Record    exifread.Record
-	Finding   solarcheck.Finding
-	Thumbnail string
-}
-
-// Result is a finished run.
+// Result is a finished run: the photos wait in the spool, in report order,
+// for Photos to hand them out. Close removes the spool.
 type Result struct {
-	Items   []Item // in the order of the entries (sorted by input and path)
-	Cameras []solarcheck.Camera
+	Entries []Entry // as the walk gave them
+	// Order is the report order: Order[k] is the index in Entries of the
+	// k-th photo of the report (sorted by relative path, then input root).
+	Order []int
+	// Verdicts are the final verdicts (after the camera models), in report
+	// order: the counts and the choice of HTML cards need them before any
+	// photo is written.
+	Verdicts []string
+	Cameras  *solarcheck.Cameras
 	// SheetProblems are the sheet's errors as "file:line:column: reason",
 	// including rows naming no photo of the audit.
 	SheetProblems []string
+
+	x     *solarcheck.Examiner
+	spool *spool
+	late  map[int]string // report position → thumbnail written after the run
 }
 
-// Run reads and examines every entry. It stops early, returning ctx.Err(),
-// when ctx is cancelled; a run that returns an error has no usable result.
-func Run(ctx context.Context, entries []Entry, o Options) (*Result, error) {
+// stored is what the spool keeps of one entry: the file facts the report
+// needs and the finding before its camera's model is applied.
+type stored struct {
+	SHA256    string
+	Size      int64
+	Container string
+	Error     string // why the file could not be read; "" when fine
+	Thumbnail string
+	// Clock is the index of the finding's solarcheck.ClockInput among
+	// those given to FitCameras; -1 when it has none.
+	Clock   int
+	Finding solarcheck.Finding
+}
+
+// spoolWindow is how many finished entries may wait for an earlier one
+// still being read (a slow file, a large video being hashed) before the
+// workers pause: the spool is written in report order, and the wait must
+// not grow with the batch.
+const spoolWindow = 1024
+
+// Run reads and examines every entry, fits every camera's clock and works
+// out the final verdicts. It stops early, returning ctx.Err(), when ctx is
+// cancelled; a run that returns an error has no usable result and leaves
+// no spool.
+func Run(ctx context.Context, entries []Entry, o Options) (res *Result, err error) {
 	rows, problems := resolveSheet(o.Sheet, entries)
-	items := make([]Item, len(entries))
-	err := parallel(ctx, len(entries), o.Workers, func(i int) {
-		items[i] = o.process(i, entries[i], rows[entries[i].key()])
-		if o.Progress != nil {
-			o.Progress()
+	sp, err := createSpool(o.SpoolDir)
+	if err != nil {
+		return nil, err
+	}
+	defer func() {
+		if err != nil {
+			sp.remove()
 		}
+	}()
+	res = &Result{Entries: entries, Order: reportOrder(entries), SheetProblems: problems, x: o.Examiner, spool: sp}
+
+	var clocks []solarcheck.ClockInput
+	cameraIDs := map[string]string{} // one copy of each camera id, not one per photo
+	err = inOrder(ctx, len(entries), o.Workers, spoolWindow,
+		func(k int) stored {
+			i := res.Order[k]
+			s := o.process(i, entries[i], rows[entries[i].key()])
+			if o.Progress != nil {
+				o.Progress()
+			}
+			return s
+		},
+		func(k int, s stored) error {
+			s.Clock = -1
+			if in, ok := s.Finding.ClockInput(); ok {
+				if id, seen := cameraIDs[in.Camera]; seen {
+					in.Camera = id
+				} else {
+					cameraIDs[in.Camera] = in.Camera
+				}
+				s.Clock = len(clocks)
+				clocks = append(clocks, in)
+			}
+			return sp.add(&s)
+		})
+	if err != nil {
+		return nil, err
+	}
+	if err := sp.finish(); err != nil {
+		return nil, err
+	}
+	res.Cameras = o.Examiner.FitCameras(clocks)
+	res.Verdicts = make([]string, 0, len(entries))
+	verdicts := map[solarcheck.Verdict]string{} // one copy of each word
+	err = res.each(ctx, func(k int, s *stored) error {
+		v, ok := verdicts[s.Finding.Verdict]
+		if !ok {
+			v = string(s.Finding.Verdict)
+			verdicts[s.Finding.Verdict] = v
+		}
+		res.Verdicts = append(res.Verdicts, v)
+		return nil
 	})
 	if err != nil {
 		return nil, err
 	}
+	return res, nil
+}
 
-	findings := make([]solarcheck.Finding, len(items))
-	for i := range items {
-		findings[i] = items[i].Finding
+// Close removes the spool file.
+func (r *Result) Close() error { return r.spool.remove() }
+
+// each hands every spooled entry, in report order and with its camera's
+// model applied, to fn; it stops at fn's first error or when ctx is done.
+func (r *Result) each(ctx context.Context, fn func(k int, s *stored) error) error {
+	rd, err := r.spool.reader()
+	if err != nil {
+		return err
 	}
-	cams := o.Examiner.ModelCameras(findings)
-	for i := range items {
-		items[i].Finding = findings[i]
+	defer rd.close()
+	for k := range r.Order {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		var s stored // a fresh value: gob leaves zero fields untouched
+		if err := rd.next(&s); err != nil {
+			return fmt.Errorf("spool, entry %d of %d: %w", k+1, len(r.Order), err)
+		}
+		if s.Clock >= 0 {
+			r.x.Apply(r.Cameras, s.Clock, &s.Finding)
+		}
+		if err := fn(k, &s); err != nil {
+			return err
+		}
 	}
-	return &Result{Items: items, Cameras: cams, SheetProblems: problems}, nil
+	return nil
 }
 
 // key identifies an entry for the sheet: its path relative to its input.
 func (e Entry) key() string { return e.Rel }
 
 // process reads and examines one entry.
-func (o Options) process(i int, e Entry, rows []sheet.Row) Item {
-	it := Item{Entry: e}
-	switch {
-	case e.Err != nil:
-		it.Record = exifread.Record{Path: e.Abs, Container: exifread.ContainerUnknown, Err: e.Err, Error: exifread.Message(e.Err.Error())}
-		it.Finding = solarcheck.Finding{Path: e.Rel, Verdict: solarcheck.Unreadable, Explanation: "Not read: " + e.Err.Error() + "."}
-		return it
+func (o Options) process(i int, e Entry, rows []sheet.Row) stored {
+	if e.Err != nil {
+		return stored{Container: exifread.ContainerUnknown, Error: e.Err.Error(),
+			Finding: solarcheck.Finding{Path: e.Rel, Verdict: solarcheck.Unreadable, Explanation: "Not read: " + e.Err.Error() + "."}}
 	}
 	rec := exifread.ReadFile(e.Abs, o.Read)
+	s := stored{SHA256: rec.SHA256, Size: rec.Size, Container: rec.Container, Error: string(rec.Error)}
 	if e.SidecarOf != "" {
 		// Hashed like every file; its "unsupported container" is expected
 		// (an XMP file is not a photo) and would only contradict the row.
-		rec.Err, rec.Error = nil, ""
-		it.Record = slim(rec)
-		it.Finding = solarcheck.Finding{Path: e.Rel, Verdict: solarcheck.Unreadable,
+		s.Error = ""
+		s.Finding = solarcheck.Finding{Path: e.Rel, Verdict: solarcheck.Unreadable,
 			Explanation: fmt.Sprintf("XMP sidecar of %s: not a photo; its contents are read with that photo.", e.SidecarOf)}
-		return it
+		return s
 	}
 	if o.Thumbs != nil && rec.Err == nil {
-		it.Thumbnail = o.Thumbs(i, e, &rec)
+		s.Thumbnail = o.Thumbs(i, e, &rec)
 	}
-	rec.Thumbnail = nil // the preview has served; do not keep it for the whole batch
-	it.Finding = o.Examiner.Examine(solarcheck.Photo{Path: e.Rel, Record: rec, Rows: rows})
-	it.Record = slim(rec)
-	return it
-}
-
-// slim keeps the file facts of a record that the report needs after the
-// examination (hash, size, container, errors and warnings) and drops the
-// metadata, which the finding now carries: on a batch of 100,000 photos
-// the full records would be held until the report is built.
-func slim(r exifread.Record) exifread.Record {
-	return exifread.Record{Path: r.Path, Size: r.Size, SHA256: r.SHA256, ModTime: r.ModTime,
-		Container: r.Container, ExtensionMismatch: r.ExtensionMismatch, Err: r.Err, Error: r.Error,
-		Warnings: r.Warnings, Orientation: r.Orientation}
+	rec.Thumbnail = nil // the preview has served
+	s.Finding = o.Examiner.Examine(solarcheck.Photo{Path: e.Rel, Record: rec, Rows: rows})
+	return s
 }
 
 // resolveSheet matches the sheet's rows to the entries.
@@ -155,33 +241,10 @@ func unwrapAll(err error) []error {
 	return []error{err}
 }
 
-// parallel calls fn(i) for i in 0..n-1 on up to workers goroutines (0: one
-// per core) and waits for them. Once ctx is cancelled no further i is
-// started, the calls under way finish, and ctx.Err() is returned.
-func parallel(ctx context.Context, n, workers int, fn func(i int)) error {
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
+// removeQuietly removes a file, ignoring a file already gone.
+func removeQuietly(p string) error {
+	if err := os.Remove(p); err != nil && !os.IsNotExist(err) {
+		return err
 	}
-	next := make(chan int)
-	var wg sync.WaitGroup
-	for w := 0; w < workers; w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := range next {
-				fn(i)
-			}
-		}()
-	}
-feed:
-	for i := 0; i < n; i++ {
-		select {
-		case next <- i:
-		case <-ctx.Done():
-			break feed
-		}
-	}
-	close(next)
-	wg.Wait()
-	return ctx.Err()
+	return nil
 }

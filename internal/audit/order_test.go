@@ -1,0 +1,141 @@
+package audit
+
+import (
+	"context"
+	"errors"
+	"math"
+	"math/rand/v2"
+	"reflect"
+	"sync/atomic"
+	"testing"
+	"time"
+
+	"github.com/gnomon-forensics/gnomon/solarcheck"
+	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
+)
+
+// TestInOrder: results come out in the order of k whatever order the
+// workers finish in, no more than window of them wait at once, and both a
+// cancelled context and a failing emit stop the run with their error.
+func TestInOrder(t *testing.T) {
+	const n, workers, window = 500, 4, 16
+	var started, emitted atomic.Int64
+	var maxAhead int64
+	var got []int
+	rng := rand.New(rand.NewPCG(1, 2))
+	delays := make([]time.Duration, n)
+	for i := range delays {
+		delays[i] = time.Duration(rng.IntN(200)) * time.Microsecond
+	}
+	err := inOrder(context.Background(), n, workers, window,
+		func(k int) int {
+			if ahead := started.Add(1) - emitted.Load(); ahead > atomic.LoadInt64(&maxAhead) {
+				atomic.StoreInt64(&maxAhead, ahead)
+			}
+			time.Sleep(delays[k])
+			return k * k
+		},
+		func(k, v int) error {
+			if v != k*k {
+				t.Errorf("emit(%d, %d): value of another item", k, v)
+			}
+			got = append(got, k)
+			emitted.Add(1)
+			return nil
+		})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, k := range got {
+		if i != k {
+			t.Fatalf("emitted %d at position %d", k, i)
+		}
+	}
+	if len(got) != n {
+		t.Errorf("%d emitted, want %d", len(got), n)
+	}
+	if maxAhead > window {
+		t.Errorf("%d items started ahead of the emitted ones, window is %d", maxAhead, window)
+	}
+
+	ctx, cancel := context.WithCancel(context.Background())
+	calls := 0
+	err = inOrder(ctx, n, workers, window, func(k int) int { return k }, func(k, v int) error {
+		if calls++; calls == 10 {
+			cancel()
+		}
+		return nil
+	})
+	if !errors.Is(err, context.Canceled) || calls >= n {
+		t.Errorf("cancelled after 10: err %v after %d emits", err, calls)
+	}
+
+	boom := errors.New("disk full")
+	calls = 0
+	err = inOrder(context.Background(), n, workers, window, func(k int) int { return k }, func(k, v int) error {
+		if calls++; calls == 3 {
+			return boom
+		}
+		return nil
+	})
+	if !errors.Is(err, boom) || calls != 3 {
+		t.Errorf("failing emit: err %v after %d emits, want %v after 3", err, calls, boom)
+	}
+}
+
+// TestSpoolRoundTrip: what the spool gives back is what went in, byte for
+// byte and bit for bit: names that are not valid UTF-8, NaN, a known zero
+// offset (a pointer to zero values), and the diagnosis's basis.
+func TestSpoolRoundTrip(t *testing.T) {
+	nan := math.NaN()
+	in := []stored{
+		{SHA256: "ab", Size: 7, Container: "jpeg", Thumbnail: "thumbnails/000001.jpg", Finding: solarcheck.Finding{
+			Path: "caf\xe9/\x00\n,\"=1+1\".jpg", Camera: "Make|Model|\xff", HasClaimed: true,
+			Claimed: time.Date(2026, 3, 29, 1, 30, 0, 123456789, time.UTC),
+			Wall:    zone.Wall{Year: 2026, Month: 3, Day: 29, Hour: 2, Minute: 30, HasOffset: true, OffsetSec: 3600},
+			Claim:   zone.Claimed{Rule: "offset_tag", Zones: []string{"Europe/Paris"}, Candidates: []zone.Candidate{{UTC: time.Date(2026, 3, 29, 1, 30, 0, 0, time.UTC), Zone: "Europe/Paris", Real: true}}},
+			Offset:  &solarcheck.Interval{}, Sun: &solarcheck.SunSample{AzimuthDeg: nan},
+			Checks:  []solarcheck.Check{{Kind: solarcheck.KindGPSClock, Status: solarcheck.Agrees, Figure: -0.5, HasFigure: true, Sentence: "\u202eevil"}},
+			Verdict: solarcheck.DSTSlip,
+			Basis:   solarcheck.Basis{GPSOffset: &solarcheck.Interval{Sec: 3600, LowSec: 3590, HighSec: 3610}, StepSec: 3600, PlaceNote: " note"},
+		}},
+		{Error: "truncated", Finding: solarcheck.Finding{Path: "b.jpg", Verdict: solarcheck.Unreadable}},
+		{},
+	}
+	sp, err := createSpool(t.TempDir())
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer sp.remove()
+	for i := range in {
+		if err := sp.add(&in[i]); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := sp.finish(); err != nil {
+		t.Fatal(err)
+	}
+	for pass := 0; pass < 2; pass++ { // read as often as needed
+		rd, err := sp.reader()
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i := range in {
+			var got stored
+			if err := rd.next(&got); err != nil {
+				t.Fatalf("pass %d, item %d: %v", pass, i, err)
+			}
+			// NaN is not equal to itself: check it, then compare the rest.
+			if i == 0 {
+				if g := got.Finding.Sun; g == nil || !math.IsNaN(g.AzimuthDeg) {
+					t.Errorf("NaN azimuth came back as %+v", g)
+				}
+				got.Finding.Sun = in[0].Finding.Sun
+			}
+			if !reflect.DeepEqual(got, in[i]) {
+				t.Errorf("pass %d, item %d:\n got %+v\nwant %+v", pass, i, got, in[i])
+			}
+		}
+		rd.close()
+	}
+}
