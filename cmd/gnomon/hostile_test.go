@@ -290,7 +290,7 @@ func checkHostileRows(t *testing.T, a *report.Audit, found map[string]fs.FileMod
 			}
 		case hostile.ExpectDenied:
 			if root {
-				t.Logf("%q: running as root, so permission bits do not stop reading; the permission-denied assertion is skipped (verdict %q)", name, p.Verdict)
+				t.Logf("%q: running as root, so permission bits do not stop reading; TestAuditPermissionDenied checks this case as an unprivileged user (verdict here %q)", name, p.Verdict)
 				continue
 			}
 			if !unreadable {

@@ -31,17 +31,8 @@ func TestAuditInterrupt(t *testing.T) {
 	if testing.Short() {
 		t.Skip("builds the binary and audits thousands of files")
 	}
-	goBin, err := exec.LookPath("go")
-	if err != nil {
-		t.Skip("go is not on PATH: cannot build the gnomon binary")
-	}
 	tmp := t.TempDir()
-	bin := filepath.Join(tmp, "gnomon")
-	build := exec.Command(goBin, "build", "-o", bin, ".")
-	build.Env = append(os.Environ(), "CGO_ENABLED=0")
-	if out, err := build.CombinedOutput(); err != nil {
-		t.Fatalf("go build: %v\n%s", err, out)
-	}
+	bin := buildGnomon(t, tmp)
 	evidence := filepath.Join(tmp, "evidence")
 	if _, err := smallset.Write(evidence, 3000, smallset.Options{Big: 4}); err != nil {
 		t.Fatal(err)
@@ -115,7 +106,7 @@ func TestAuditInterrupt(t *testing.T) {
 		if err != nil {
 			return err
 		}
-		if name := d.Name(); strings.HasPrefix(name, "report.") || strings.Contains(name, ".tmp-") {
+		if name := d.Name(); strings.HasPrefix(name, "report.") || strings.Contains(name, ".tmp-") || strings.HasPrefix(name, ".gnomon-spool") {
 			t.Errorf("left behind after the interrupt: %s", p)
 		}
 		return nil
@@ -132,6 +123,23 @@ func TestAuditInterrupt(t *testing.T) {
 			t.Errorf("evidence changed: %s: %q, now %q", p, s, after[p])
 		}
 	}
+}
+
+// buildGnomon builds the command into dir and returns the binary's path;
+// it skips the test when the go tool is not at hand.
+func buildGnomon(t *testing.T, dir string) string {
+	t.Helper()
+	goBin, err := exec.LookPath("go")
+	if err != nil {
+		t.Skip("go is not on PATH: cannot build the gnomon binary")
+	}
+	bin := filepath.Join(dir, "gnomon")
+	build := exec.Command(goBin, "build", "-o", bin, ".")
+	build.Env = append(os.Environ(), "CGO_ENABLED=0")
+	if out, err := build.CombinedOutput(); err != nil {
+		t.Fatalf("go build: %v\n%s", err, out)
+	}
+	return bin
 }
 
 // TestWriteReportsStops: once the run is interrupted, every report writer
