@@ -432,14 +432,7 @@ func (o *objectWriter) field(fv reflect.Value, f jsonField) error {
 }
 
 // end closes the object: "{}" when it has no member.
-func (o *objectWriter) end() {
-	if o.n == 0 {
-		o.e.buf.WriteString("{}")
-		return
-	}
-	o.e.newline(o.depth)
-	o.e.buf.WriteByte('}')
-}
+func (o *objectWriter) end() { o.e.closing(o.n, o.depth, "{}") }
 
 // arrayWriter writes one JSON array an element at a time, passing the text
 // on to the encoder's writer between elements once over jsonFlushBytes.
@@ -468,13 +461,17 @@ func (a *arrayWriter) elem(v reflect.Value) error {
 
 // end closes the array: "[]" when it has no element, as encoding/json
 // writes an empty slice.
-func (a *arrayWriter) end() {
-	if a.n == 0 {
-		a.e.buf.WriteString("[]")
+func (a *arrayWriter) end() { a.e.closing(a.n, a.depth, "[]") }
+
+// closing ends an object or array of n members opened at depth: the empty
+// pair when n is 0, else the closing bracket on a line of its own.
+func (e *jsonEncoder) closing(n, depth int, pair string) {
+	if n == 0 {
+		e.buf.WriteString(pair)
 		return
 	}
-	a.e.newline(a.depth)
-	a.e.buf.WriteByte(']')
+	e.newline(depth)
+	e.buf.WriteByte(pair[1])
 }
 
 // flush passes the encoded text on to w.
