@@ -22,7 +22,7 @@ var csvHeader = []string{
 	"path", "root", "sha256", "size", "container", "camera", "claimed_local", "claim_source",
 	"zone", "claimed_utc", "lat", "lon", "sun_azimuth", "sun_altitude", "verdict",
 	"offset_s", "offset_low_s", "offset_high_s", "corrected_utc_earliest", "corrected_utc_latest",
-	"checks", "explanation", "error",
+	"checks", "explanation", "error", "file_notes",
 }
 
 // WriteCSV writes one row per photo (sorted by path, then root) under
@@ -88,7 +88,7 @@ func (s *csvSink) Photo(p *Photo) error {
 		csvFloat(p.OffsetS), csvFloat(p.OffsetLowS), csvFloat(p.OffsetHighS),
 		NeutraliseCell(p.CorrectedUTCEarliest), NeutraliseCell(p.CorrectedUTCLatest),
 		NeutraliseCell(checksCell(p.Checks)),
-		NeutraliseCell(p.Explanation), NeutraliseCell(p.Error),
+		NeutraliseCell(p.Explanation), NeutraliseCell(p.Error), NeutraliseCell(strings.Join(p.FileNotes, "; ")),
 	)
 	if err := s.cw.Write(s.row); err != nil {
 		return s.fail(fmt.Errorf("row for %q: %w", p.Path, err))

@@ -96,6 +96,7 @@ func TestCSVHostile(t *testing.T) {
 		{"quay/IMG_0101.JPG", "lat", "43.21", "numbers in shortest exact form (strconv)"},
 		{"quay/IMG_0101.JPG", "checks", "shadow=agrees(-12±145 s); gps_clock=agrees(1±1 s)", "checks column format (package doc)"},
 		{hostScript, "claimed_local", "'" + hostFormula, "formula from EXIF neutralised"},
+		{hostScript, "file_notes", "extension .jpg suggests jpeg but the bytes are png; " + hostFormula2 + "; " + hostInvalid, "notes joined; a formula after the first note cannot start the cell"},
 		{hostScript, "camera", hostImg, "markup is plain text in CSV"},
 		{hostInvalid, "camera", "'-2+3", "text that looks numeric is still neutralised"},
 		{hostInvalid, "explanation", "'@no independent evidence", "leading @"},

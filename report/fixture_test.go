@@ -104,6 +104,7 @@ func fixtureAudit() *Audit {
 		Measured: []Measured{{Object: hostTitle, Azimuth: 300, AzimuthSD: 4, Altitude: 10, AltitudeSD: 3, HasAltitude: true}},
 		Error:    hostRTL + " " + hostInvalid}, at(19, 40))
 	hostile.ClaimedLocal = hostFormula
+	hostile.FileNotes = []string{"extension .jpg suggests jpeg but the bytes are png", hostFormula2, hostInvalid}
 	weird := Photo{Path: hostInvalid, Root: "/cases/harbour", Camera: "-2+3", Verdict: "unverified",
 		Explanation: "@no independent evidence", Lat: fp(math.NaN()), Lon: fp(200)}
 	place := photo(Photo{Path: "z/far.jpg", Camera: "cam-A", Verdict: "place_mismatch", ShadowFix: &Fix{Lat: 40.9, Lon: 14.2, RadiusKm: 35},

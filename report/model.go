@@ -94,6 +94,10 @@ type Photo struct {
 	Explanation          string        `json:"explanation"`
 	Rejected             []Alternative `json:"rejected_explanations"`
 	Error                string        `json:"error"` // why a file could not be read; "" when fine
+	// FileNotes are what the reader noticed about the file that did not
+	// stop it: a name extension that does not fit the bytes (a renamed
+	// file), damage it read past. Each can matter to an examiner.
+	FileNotes []string `json:"file_notes"`
 	// GPSRejected says why a GPS position in the file was not used (raw
 	// value and reason); the GeoJSON keeps it as a feature with no geometry.
 	GPSRejected string `json:"gps_rejected,omitempty"`

@@ -284,6 +284,10 @@ func checkHostileRows(t *testing.T, a *report.Audit, found map[string]fs.FileMod
 			if unreadable {
 				t.Errorf("%q (%s): verdict unreadable (%s), want its metadata read", name, it.Kind, why)
 			}
+			// A renamed file is itself a fact for the examiner.
+			if it.Kind == "wrong-extension" && !strings.Contains(strings.Join(p.FileNotes, " "), "extension") {
+				t.Errorf("%q (%s): file_notes %q do not name the extension that does not fit", name, it.Kind, p.FileNotes)
+			}
 		case hostile.ExpectUnreadable:
 			if !unreadable {
 				t.Errorf("%q (%s): verdict %q, want unreadable", name, it.Kind, p.Verdict)

@@ -110,6 +110,7 @@ func photo(e Entry, s *stored) report.Photo {
 		Verdict:     string(f.Verdict),
 		Explanation: f.Explanation,
 		Error:       s.Error,
+		FileNotes:   append([]string{}, s.Notes...),
 		GPSRejected: f.GPSRejected,
 		Thumbnail:   s.Thumbnail,
 	}

@@ -74,7 +74,8 @@ type stored struct {
 	SHA256    string
 	Size      int64
 	Container string
-	Error     string // why the file could not be read; "" when fine
+	Error     string   // why the file could not be read; "" when fine
+	Notes     []string // report.Photo.FileNotes
 	Thumbnail string
 	// Clock is the index of the finding's solarcheck.ClockInput among
 	// those given to FitCameras; -1 when it has none.
@@ -193,6 +194,10 @@ func (o Options) process(i int, e Entry, rows []sheet.Row) stored {
 	}
 	rec := exifread.ReadFile(e.Abs, o.Read)
 	s := stored{SHA256: rec.SHA256, Size: rec.Size, Container: rec.Container, Error: string(rec.Error)}
+	if rec.ExtensionMismatch != "" {
+		s.Notes = append(s.Notes, rec.ExtensionMismatch)
+	}
+	s.Notes = append(s.Notes, rec.Warnings...)
 	if e.SidecarOf != "" {
 		// Hashed like every file; its "unsupported container" is expected
 		// (an XMP file is not a photo) and would only contradict the row.
