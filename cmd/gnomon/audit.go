@@ -320,7 +320,10 @@ func doAudit(ctx context.Context, e env, cfg auditConfig) (sum summary, err erro
 	// named in sum.written as soon as it may exist, so that a failure
 	// removes it.
 	sum.written = names
-	if err := writeReports(ctx, cfg.out, names, res, head); err != nil {
+	wprog := newProgress(e.stderr, len(entries), "writing reports", cfg.quiet)
+	err = writeReports(ctx, cfg.out, names, res, head, wprog)
+	wprog.finish()
+	if err != nil {
 		return sum, err
 	}
 
@@ -356,8 +359,8 @@ func (c ctxWriter) Write(p []byte) (int, error) {
 // short channel, and is put in place by report.WriteFileAtomic only once
 // complete. The photos stream through; none is held beyond the HTML
 // page's cards. On any error (an interrupt included) every writer stops,
-// leaving no partial file.
-func writeReports(ctx context.Context, dir string, names []string, res *audit.Result, head *report.Audit) error {
+// leaving no partial file. prog steps once per photo.
+func writeReports(ctx context.Context, dir string, names []string, res *audit.Result, head *report.Audit, prog progress) error {
 	ctx, cancel := context.WithCancelCause(ctx)
 	defer cancel(nil)
 	carded := res.Carded()
@@ -409,6 +412,7 @@ func writeReports(ctx context.Context, dir string, names []string, res *audit.Re
 				return context.Cause(ctx)
 			}
 		}
+		prog.step()
 		return nil
 	})
 	if feedErr != nil {

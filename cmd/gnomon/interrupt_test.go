@@ -171,7 +171,7 @@ func TestWriteReportsStops(t *testing.T) {
 	interrupted, cancel := context.WithCancel(context.Background())
 	cancel()
 	dir := t.TempDir()
-	if err := writeReports(interrupted, dir, names, res, head); !errors.Is(err, context.Canceled) {
+	if err := writeReports(interrupted, dir, names, res, head, noProgress{}); !errors.Is(err, context.Canceled) {
 		t.Errorf("interrupted: err %v, want context.Canceled", err)
 	}
 	if des, _ := os.ReadDir(dir); len(des) != 0 {
@@ -179,7 +179,7 @@ func TestWriteReportsStops(t *testing.T) {
 	}
 
 	gone := filepath.Join(t.TempDir(), "missing")
-	err = writeReports(context.Background(), gone, names, res, head)
+	err = writeReports(context.Background(), gone, names, res, head, noProgress{})
 	if err == nil || errors.Is(err, context.Canceled) || !strings.Contains(err.Error(), "writing report.") {
 		t.Errorf("unwritable folder: err %v, want the writer's own error", err)
 	}
