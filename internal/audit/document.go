@@ -81,7 +81,7 @@ func (r *Result) Photos(ctx context.Context, withSunPaths bool, fn func(p *repor
 		carded = r.Carded()
 	}
 	return r.each(ctx, func(k int, s *stored) error {
-		p := photo(r.Entries[r.Order[k]], s)
+		p := photo(r.entries[r.order[k]], s)
 		if t, ok := r.late[k]; ok {
 			p.Thumbnail = t
 		}
@@ -274,8 +274,8 @@ func LateThumbnails(ctx context.Context, res *Result, workers int, read exifread
 	}
 	names := make([]string, len(todo))
 	err := parallel(ctx, len(todo), workers, func(j int) {
-		i := res.Order[todo[j]]
-		e := res.Entries[i]
+		i := res.order[todo[j]]
+		e := res.entries[i]
 		rec := exifread.ReadFile(e.Abs, read)
 		if rec.Err == nil {
 			names[j] = thumbs(i, e, &rec)

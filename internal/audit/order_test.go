@@ -5,11 +5,15 @@ import (
 	"errors"
 	"math"
 	"math/rand/v2"
+	"os"
+	"path/filepath"
 	"reflect"
 	"sync/atomic"
 	"testing"
 	"time"
 
+	"github.com/gnomon-forensics/gnomon/internal/benchtools/smallset"
+	"github.com/gnomon-forensics/gnomon/report"
 	"github.com/gnomon-forensics/gnomon/solarcheck"
 	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
 )
@@ -137,5 +141,65 @@ func TestSpoolRoundTrip(t *testing.T) {
 			}
 		}
 		rd.close()
+	}
+}
+
+// TestRunStreamsInReportOrder: with two inputs holding the same relative
+// paths, Photos hands out every entry once, sorted by path then root (the
+// order package report requires), the verdicts line up with the photos,
+// Close removes the spool, and a cancelled run leaves no spool behind.
+func TestRunStreamsInReportOrder(t *testing.T) {
+	a, b := filepath.Join(t.TempDir(), "b-second"), filepath.Join(t.TempDir(), "a-first")
+	for _, d := range []string{a, b} {
+		if _, err := smallset.Write(d, 5, smallset.Options{}); err != nil {
+			t.Fatal(err)
+		}
+	}
+	entries, err := Walk([]string{a, b})
+	if err != nil {
+		t.Fatal(err)
+	}
+	x := solarcheck.NewExaminer(solarcheck.Options{Zones: zone.NewFinder(nil)})
+	spoolDir := t.TempDir()
+	res, err := Run(context.Background(), entries, Options{Examiner: x, SpoolDir: spoolDir, Workers: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got []report.Photo
+	err = res.Photos(context.Background(), true, func(p *report.Photo) error {
+		got = append(got, *p)
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(got) != len(entries) || len(res.Verdicts) != len(entries) {
+		t.Fatalf("%d photos and %d verdicts for %d entries", len(got), len(res.Verdicts), len(entries))
+	}
+	for k := range got {
+		if got[k].Verdict != res.Verdicts[k] {
+			t.Errorf("photo %d (%s): verdict %q, Verdicts says %q", k, got[k].Path, got[k].Verdict, res.Verdicts[k])
+		}
+		if k > 0 {
+			p, q := got[k-1], got[k]
+			if p.Path > q.Path || (p.Path == q.Path && p.Root >= q.Root) {
+				t.Errorf("photo %d (%s in %s) comes after %s in %s", k, q.Path, q.Root, p.Path, p.Root)
+			}
+		}
+	}
+	if err := res.Close(); err != nil {
+		t.Fatal(err)
+	}
+	if des, _ := os.ReadDir(spoolDir); len(des) != 0 {
+		t.Errorf("Close left %d files in the spool folder", len(des))
+	}
+
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	if _, err := Run(ctx, entries, Options{Examiner: x, SpoolDir: spoolDir}); !errors.Is(err, context.Canceled) {
+		t.Errorf("cancelled run: err %v, want context.Canceled", err)
+	}
+	if des, _ := os.ReadDir(spoolDir); len(des) != 0 {
+		t.Errorf("a cancelled run left %d files in the spool folder", len(des))
 	}
 }

@@ -50,10 +50,6 @@ type Options struct {
 // Result is a finished run: the photos wait in the spool, in report order,
 // for Photos to hand them out. Close removes the spool.
 type Result struct {
-	Entries []Entry // as the walk gave them
-	// Order is the report order: Order[k] is the index in Entries of the
-	// k-th photo of the report (sorted by relative path, then input root).
-	Order []int
 	// Verdicts are the final verdicts (after the camera models), in report
 	// order: the counts and the choice of HTML cards need them before any
 	// photo is written.
@@ -63,6 +59,10 @@ type Result struct {
 	// including rows naming no photo of the audit.
 	SheetProblems []string
 
+	entries []Entry // as the walk gave them
+	// order is the report order: order[k] is the index in entries of the
+	// k-th photo of the report (sorted by relative path, then input root).
+	order []int
 	x     *solarcheck.Examiner
 	spool *spool
 	late  map[int]string // report position → thumbnail written after the run
@@ -104,13 +104,13 @@ func Run(ctx context.Context, entries []Entry, o Options) (res *Result, err erro
 			sp.remove()
 		}
 	}()
-	res = &Result{Entries: entries, Order: reportOrder(entries), SheetProblems: problems, x: o.Examiner, spool: sp}
+	res = &Result{entries: entries, order: reportOrder(entries), SheetProblems: problems, x: o.Examiner, spool: sp}
 
 	var clocks []solarcheck.ClockInput
 	cameraIDs := map[string]string{} // one copy of each camera id, not one per photo
 	err = inOrder(ctx, len(entries), o.Workers, spoolWindow,
 		func(k int) stored {
-			i := res.Order[k]
+			i := res.order[k]
 			s := o.process(i, entries[i], rows[entries[i].key()])
 			if o.Progress != nil {
 				o.Progress()
@@ -165,13 +165,13 @@ func (r *Result) each(ctx context.Context, fn func(k int, s *stored) error) erro
 		return err
 	}
 	defer rd.close()
-	for k := range r.Order {
+	for k := range r.order {
 		if err := ctx.Err(); err != nil {
 			return err
 		}
 		var s stored // a fresh value: gob leaves zero fields untouched
 		if err := rd.next(&s); err != nil {
-			return fmt.Errorf("spool, entry %d of %d: %w", k+1, len(r.Order), err)
+			return fmt.Errorf("spool, entry %d of %d: %w", k+1, len(r.order), err)
 		}
 		if s.Clock >= 0 {
 			r.x.Apply(r.Cameras, s.Clock, &s.Finding)
