@@ -301,7 +301,7 @@ func pngRawProfile(b []byte, compressed bool, max int64) ([]byte, error) {
 	}
 	n, err := strconv.ParseInt(fields[1], 10, 64)
 	if err != nil || n < 0 {
-		return nil, formatErr("png raw profile", -1, "length %q", fields[1])
+		return nil, formatErr("png raw profile", -1, "length %s", quoted(fields[1]))
 	}
 	if n > max {
 		return nil, &LimitError{Where: "png raw profile", Limit: "MaxExifBytes", Value: n, Max: max}

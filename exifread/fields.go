@@ -251,7 +251,7 @@ func fromEXIF(rec *Record, d *tiffData) {
 			if v, ok := parseOffset(off); ok {
 				w.OffsetSec = &v
 			} else if strings.TrimSpace(strings.Trim(off, "\x00:")) != "" {
-				rec.Warnings = append(rec.Warnings, fmt.Sprintf("offset tag %#04x %q is not a usable offset (±HH:MM within −12:00…+14:00); ignored", offTag, off))
+				rec.Warnings = append(rec.Warnings, fmt.Sprintf("offset tag %#04x %s is not a usable offset (±HH:MM within −12:00…+14:00); ignored", offTag, quoted(off)))
 			}
 		}
 		return w
@@ -358,7 +358,7 @@ func fromEXIFGPS(rec *Record, d *tiffData) {
 			v = -v
 		case pos:
 		default:
-			return fptr(v), raw, fmt.Sprintf("reference %q is neither %s nor %s", r, pos, neg)
+			return fptr(v), raw, fmt.Sprintf("reference %s is neither %s nor %s", quoted(r), pos, neg)
 		}
 		return fptr(v), raw, ""
 	}

@@ -9,8 +9,10 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"time"
+	"unicode/utf8"
 
 	"github.com/rwcarlsen/goexif/exif"
 )
@@ -209,7 +211,7 @@ func crossCheck(rec *Record, payload []byte) {
 		}
 		s = strings.TrimSpace(strings.TrimRight(s, "\x00"))
 		if s != strings.TrimSpace(ours) {
-			rec.Warnings = append(rec.Warnings, fmt.Sprintf("cross-check: goexif reads %s as %q, this reader as %q", name, s, ours))
+			rec.Warnings = append(rec.Warnings, fmt.Sprintf("cross-check: goexif reads %s as %s, this reader as %s", name, quoted(s), quoted(ours)))
 		}
 	}
 	cmp(exif.Make, rec.Make)
@@ -403,4 +405,23 @@ func applyXMP(rec *Record, b []byte, source string) {
 	str(&rec.Model, "model", nsTIFF, "Model")
 	str(&rec.LensModel, "lens_model", nsEXIFEX, "LensModel")
 	str(&rec.BodySerialNumber, "body_serial_number", nsEXIFEX, "BodySerialNumber")
+}
+
+// maxQuotedBytes bounds a tag value quoted in a warning. Warnings travel
+// into every report row; a crafted 200 KB value quoted whole would make
+// the row unreadable and, over a batch, cost memory for nothing. The value
+// itself stays in its field.
+const maxQuotedBytes = 64
+
+// quoted returns s as a Go-quoted string, cut to maxQuotedBytes (at a
+// character boundary) with the full length stated when it is longer.
+func quoted(s string) string {
+	if len(s) <= maxQuotedBytes {
+		return strconv.Quote(s)
+	}
+	cut := maxQuotedBytes
+	for cut > 0 && !utf8.RuneStart(s[cut]) {
+		cut--
+	}
+	return fmt.Sprintf("%s… (%d bytes in all)", strconv.Quote(s[:cut]), len(s))
 }

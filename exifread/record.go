@@ -143,10 +143,10 @@ func (w WallTime) Civil() time.Time {
 // instance from the GPS position). The offset tag, if any, is ignored.
 func (w WallTime) In(loc *time.Location) (time.Time, error) {
 	if !w.Valid {
-		return time.Time{}, fmt.Errorf("wall time %q: %s", w.Raw, w.Invalid)
+		return time.Time{}, fmt.Errorf("wall time %s: %s", quoted(w.Raw), w.Invalid)
 	}
 	if loc == nil {
-		return time.Time{}, fmt.Errorf("wall time %q: nil location", w.Raw)
+		return time.Time{}, fmt.Errorf("wall time %s: nil location", quoted(w.Raw))
 	}
 	return time.Date(w.Year, time.Month(w.Month), w.Day, w.Hour, w.Minute, w.Second, w.Nanosecond, loc), nil
 }

@@ -2,6 +2,7 @@ package exifread
 
 import (
 	"errors"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -332,5 +333,24 @@ func TestOffsetTags(t *testing.T) {
 	}
 	if o := rec.DateTime.OffsetSec; o == nil || *o != -4*3600 {
 		t.Errorf("DateTime offset %v, want -14400 (EXIF 2.31 OffsetTime)", o)
+	}
+}
+
+// TestQuotedBounded: a value quoted in a warning or error is cut to
+// maxQuotedBytes at a character boundary, says how long it was, and stays
+// a valid Go string literal up to the cut (issue 6: crafted 200 KB values
+// must not fill every report row).
+func TestQuotedBounded(t *testing.T) {
+	cases := []struct{ source, in, want string }{
+		{"short value kept whole (strconv.Quote)", "Acme", `"Acme"`},
+		{"exactly the bound kept whole", strings.Repeat("a", maxQuotedBytes), strconv.Quote(strings.Repeat("a", maxQuotedBytes))},
+		{"one byte over: cut, length stated", strings.Repeat("a", maxQuotedBytes+1), strconv.Quote(strings.Repeat("a", maxQuotedBytes)) + "… (65 bytes in all)"},
+		{"two-byte characters: no split character (UTF-8, RFC 3629)", strings.Repeat("é", 40), strconv.Quote(strings.Repeat("é", 32)) + "… (80 bytes in all)"},
+		{"control characters escaped (strconv.Quote)", "a\nb\u202e", `"a\nb\u202e"`},
+	}
+	for _, c := range cases {
+		if got := quoted(c.in); got != c.want {
+			t.Errorf("%s: quoted → %s, want %s", c.source, got, c.want)
+		}
 	}
 }

@@ -107,7 +107,7 @@ func parseXMPDate(raw, source string) *WallTime {
 	atoi := func(x string) int {
 		v, e := strconv.Atoi(x)
 		if e != nil && err == nil {
-			err = fmt.Errorf("%q is not a number", x)
+			err = fmt.Errorf("%s is not a number", quoted(x))
 		}
 		return v
 	}

@@ -260,6 +260,30 @@ func checkHostileRows(t *testing.T, a *report.Audit, found map[string]fs.FileMod
 			t.Errorf("row %q matches no item in the folder (bytes of the name not restored?)", name)
 		}
 	}
+	// Crafted 200 KB tag values stay in the files (and in gnomon meta); a
+	// report row quotes them only in part, so that no row becomes
+	// unreadable and no per-photo text grows with the evidence. The bounds
+	// are generous: a real make|model|serial is well under 100 bytes
+	// (common practice).
+	const maxCameraBytes, maxNoteBytes, maxExplanationBytes = 256, 2 << 10, 8 << 10
+	for _, p := range a.Photos {
+		if len(p.Camera) > maxCameraBytes {
+			t.Errorf("%q: camera id of %d bytes", p.Path, len(p.Camera))
+		}
+		if len(p.Explanation) > maxExplanationBytes {
+			t.Errorf("%q: explanation of %d bytes", p.Path, len(p.Explanation))
+		}
+		for _, n := range p.FileNotes {
+			if len(n) > maxNoteBytes {
+				t.Errorf("%q: file note of %d bytes: %.80s…", p.Path, len(n), n)
+			}
+		}
+		for _, ch := range p.Checks {
+			if len(ch.Sentence) > maxNoteBytes {
+				t.Errorf("%q: %s sentence of %d bytes", p.Path, ch.Kind, len(ch.Sentence))
+			}
+		}
+	}
 	c := a.Run.Counts
 	sum := 0
 	for _, n := range c.ByVerdict {

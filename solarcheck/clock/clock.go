@@ -2,6 +2,8 @@ package clock
 
 import (
 	"container/heap"
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"fmt"
 	"math"
@@ -10,6 +12,7 @@ import (
 	"strings"
 	"time"
 	"unicode"
+	"unicode/utf8"
 )
 
 // ErrNoEvidence marks a camera none of whose photos has independent
@@ -338,7 +341,29 @@ func fitSegment(points []Point, idx []int, opt Options) Segment {
 // case folded, joined as "make|model|serial"; without a serial,
 // "make|model". It returns "" when make and model are both empty: such
 // photos cannot be grouped by camera.
+//
+// An id longer than MaxCameraIDBytes (no real camera writes one; a crafted
+// or corrupt tag does) is cut and ends with "…#" and the first 16 hex
+// digits of the SHA-256 of the whole id, so different long ids stay apart
+// while each photo's id, held for the whole batch, stays small. The full
+// tag values remain in the file and in `gnomon meta`.
 func CameraID(maker, model, serial string) string {
+	id := cameraID(maker, model, serial)
+	if len(id) <= MaxCameraIDBytes {
+		return id
+	}
+	sum := sha256.Sum256([]byte(id))
+	cut := MaxCameraIDBytes - len("…#") - 16
+	for cut > 0 && !utf8.RuneStart(id[cut]) {
+		cut-- // do not split a character
+	}
+	return id[:cut] + "…#" + hex.EncodeToString(sum[:8])
+}
+
+// MaxCameraIDBytes bounds the length of a CameraID.
+const MaxCameraIDBytes = 160
+
+func cameraID(maker, model, serial string) string {
 	norm := func(s string) string {
 		s = strings.Map(func(r rune) rune {
 			if r == 0 || unicode.IsSpace(r) {

@@ -9,6 +9,7 @@ import (
 	"strings"
 	"testing"
 	"time"
+	"unicode/utf8"
 )
 
 func fields(s string) []float64 {
@@ -312,6 +313,26 @@ func TestCameraIDAndFileNumber(t *testing.T) {
 		if got := CameraID(c.mk, c.md, c.sn); got != c.want {
 			t.Errorf("%s: %q", c.source, got)
 		}
+	}
+	// Crafted tags (issue 6: "very long values"; memory must not grow with
+	// them): the id is bounded, valid UTF-8 stays valid, and two long ids
+	// that differ only at their ends stay apart (SHA-256 suffix).
+	long := strings.Repeat("é", 100_000)
+	a, b := CameraID("Acme", long+"1", ""), CameraID("Acme", long+"2", "")
+	for _, id := range []string{a, b} {
+		if len(id) > MaxCameraIDBytes || !utf8.ValidString(id) || !strings.HasPrefix(id, "acme|éé") {
+			t.Errorf("long id: %d bytes, valid UTF-8 %v, starts %q", len(id), utf8.ValidString(id), id[:min(12, len(id))])
+		}
+	}
+	if a == b {
+		t.Errorf("two long ids that differ at the end were merged: %q", a)
+	}
+	if got := CameraID("Acme", long+"1", ""); got != a {
+		t.Errorf("long id not stable: %q then %q", a, got)
+	}
+	edge := strings.Repeat("m", MaxCameraIDBytes-len("acme|"))
+	if got := CameraID("Acme", edge, ""); got != "acme|"+edge {
+		t.Errorf("an id of exactly MaxCameraIDBytes was changed: %q", got)
 	}
 	nums := []struct {
 		name      string
