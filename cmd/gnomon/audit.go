@@ -16,6 +16,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 	"syscall"
 	"time"
 
@@ -365,10 +366,12 @@ func writeReports(ctx context.Context, dir string, names []string, res *audit.Re
 	defer cancel(nil)
 	carded := res.Carded()
 	feeds := make([]chan *report.Photo, len(names))
-	errs := make(chan error, len(names))
+	var wg sync.WaitGroup
 	for i, name := range names {
 		feeds[i] = make(chan *report.Photo, 64)
+		wg.Add(1)
 		go func(name string, feed <-chan *report.Photo) {
+			defer wg.Done()
 			err := report.WriteFileAtomic(filepath.Join(dir, name), func(w io.Writer) error {
 				// A report stops at its next write once the run is
 				// interrupted.
@@ -395,12 +398,10 @@ func writeReports(ctx context.Context, dir string, names []string, res *audit.Re
 				return s.Close()
 			})
 			if err != nil {
-				err = fmt.Errorf("writing %s: %w", name, err)
-				cancel(err)
+				cancel(fmt.Errorf("writing %s: %w", name, err))
 				for range feed { // let the producer finish its pass
 				}
 			}
-			errs <- err
 		}(name, feeds[i])
 	}
 	withHTML := slices.Contains(names, "report.html")
@@ -421,9 +422,7 @@ func writeReports(ctx context.Context, dir string, names []string, res *audit.Re
 	for _, f := range feeds {
 		close(f)
 	}
-	for range names {
-		<-errs // a failed writer has set the cause already
-	}
+	wg.Wait()
 	// The cause is the interrupt, the first failed writer, or the feed.
 	return context.Cause(ctx)
 }
