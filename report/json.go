@@ -259,7 +259,7 @@ func (e *jsonEncoder) value(v reflect.Value, depth int) error {
 	case reflect.Float32, reflect.Float64:
 		e.num(v.Float())
 	case reflect.Slice, reflect.Array:
-		arr := arrayWriter{e: e, depth: depth}
+		arr := newArrayWriter(e, depth)
 		for i := range v.Len() {
 			if err := arr.elem(v.Index(i)); err != nil {
 				return err
@@ -349,7 +349,7 @@ func isEmpty(v reflect.Value) bool {
 // object writes a struct, adding "<name>_raw_b64" after a string or string
 // list holding invalid UTF-8 and "<name>_nonfinite" after a NaN/Inf number.
 func (e *jsonEncoder) object(v reflect.Value, depth int) error {
-	obj := objectWriter{e: e, depth: depth}
+	obj := newObjectWriter(e, depth)
 	for _, f := range e.fieldsOf(v.Type()) {
 		if err := obj.field(v.Field(f.index), f); err != nil {
 			return err
@@ -359,23 +359,48 @@ func (e *jsonEncoder) object(v reflect.Value, depth int) error {
 	return nil
 }
 
-// objectWriter writes one JSON object a member at a time, so that a
-// document can stop between members (see jsonDoc).
-type objectWriter struct {
+// nest is a JSON object or array being written an item at a time, so that
+// a document can stop between items (see jsonDoc).
+type nest struct {
 	e     *jsonEncoder
-	depth int // of the object itself
-	n     int // members written
+	depth int    // of the object or array itself
+	pair  string // "{}" or "[]"
+	n     int    // items written
+}
+
+// next starts the next item: the opening bracket or a comma, then the indent.
+func (c *nest) next() {
+	if c.n == 0 {
+		c.e.buf.WriteByte(c.pair[0])
+	} else {
+		c.e.buf.WriteByte(',')
+	}
+	c.n++
+	c.e.newline(c.depth + 1)
+}
+
+// end closes it: the empty pair when it has no item (as encoding/json
+// writes an empty struct or slice), else the closing bracket on a line of
+// its own.
+func (c *nest) end() {
+	if c.n == 0 {
+		c.e.buf.WriteString(c.pair)
+		return
+	}
+	c.e.newline(c.depth)
+	c.e.buf.WriteByte(c.pair[1])
+}
+
+// objectWriter writes one JSON object a member at a time.
+type objectWriter struct{ nest }
+
+func newObjectWriter(e *jsonEncoder, depth int) objectWriter {
+	return objectWriter{nest{e: e, depth: depth, pair: "{}"}}
 }
 
 // name opens the next member: the brace or comma, the indent and the name.
 func (o *objectWriter) name(name string) {
-	if o.n == 0 {
-		o.e.buf.WriteByte('{')
-	} else {
-		o.e.buf.WriteByte(',')
-	}
-	o.n++
-	o.e.newline(o.depth + 1)
+	o.next()
 	o.e.str(name)
 	o.e.buf.WriteString(": ")
 }
@@ -431,25 +456,16 @@ func (o *objectWriter) field(fv reflect.Value, f jsonField) error {
 	return nil
 }
 
-// end closes the object: "{}" when it has no member.
-func (o *objectWriter) end() { o.e.closing(o.n, o.depth, "{}") }
-
 // arrayWriter writes one JSON array an element at a time, passing the text
 // on to the encoder's writer between elements once over jsonFlushBytes.
-type arrayWriter struct {
-	e     *jsonEncoder
-	depth int // of the array itself
-	n     int // elements written
+type arrayWriter struct{ nest }
+
+func newArrayWriter(e *jsonEncoder, depth int) arrayWriter {
+	return arrayWriter{nest{e: e, depth: depth, pair: "[]"}}
 }
 
 func (a *arrayWriter) elem(v reflect.Value) error {
-	if a.n == 0 {
-		a.e.buf.WriteByte('[')
-	} else {
-		a.e.buf.WriteByte(',')
-	}
-	a.n++
-	a.e.newline(a.depth + 1)
+	a.next()
 	if err := a.e.value(v, a.depth+1); err != nil {
 		return fmt.Errorf("[%d]: %w", a.n-1, err)
 	}
@@ -457,21 +473,6 @@ func (a *arrayWriter) elem(v reflect.Value) error {
 		return a.e.flush()
 	}
 	return nil
-}
-
-// end closes the array: "[]" when it has no element, as encoding/json
-// writes an empty slice.
-func (a *arrayWriter) end() { a.e.closing(a.n, a.depth, "[]") }
-
-// closing ends an object or array of n members opened at depth: the empty
-// pair when n is 0, else the closing bracket on a line of its own.
-func (e *jsonEncoder) closing(n, depth int, pair string) {
-	if n == 0 {
-		e.buf.WriteString(pair)
-		return
-	}
-	e.newline(depth)
-	e.buf.WriteByte(pair[1])
 }
 
 // flush passes the encoded text on to w.
@@ -511,8 +512,8 @@ func newJSONDoc(w io.Writer, doc reflect.Value, stream string) *jsonDoc {
 	if d.at < 0 {
 		panic("report: newJSONDoc: " + doc.Type().String() + " has no member " + stream)
 	}
-	d.obj = objectWriter{e: &d.e, depth: 0}
-	d.arr = arrayWriter{e: &d.e, depth: 1}
+	d.obj = newObjectWriter(&d.e, 0)
+	d.arr = newArrayWriter(&d.e, 1)
 	return d
 }
 
