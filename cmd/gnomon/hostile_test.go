@@ -9,6 +9,7 @@ import (
 	"errors"
 	"fmt"
 	"io/fs"
+	"maps"
 	"math"
 	"os"
 	"path/filepath"
@@ -89,19 +90,7 @@ func TestHostileCorpus(t *testing.T) {
 	}
 
 	// Issue 6 "Evidence is never modified": contents, modes, mtimes, link targets.
-	after := treeState(t, dir)
-	if !maps2Equal(before, after) {
-		for p, s := range before {
-			if after[p] != s {
-				t.Errorf("evidence changed: %q: %s → %s", p, s, after[p])
-			}
-		}
-		for p := range after {
-			if _, ok := before[p]; !ok {
-				t.Errorf("evidence gained an item: %q", p)
-			}
-		}
-	}
+	checkTreeUnchanged(t, before, treeState(t, dir))
 
 	a := checkHostileJSON(t, out)
 	checkHostileRows(t, a, found, manifest)
@@ -126,16 +115,25 @@ func hangGuard() time.Duration {
 	return d
 }
 
-func maps2Equal(a, b map[string]string) bool {
-	if len(a) != len(b) {
-		return false
+// checkTreeUnchanged reports every item of an evidence tree (treeState)
+// that changed, vanished or appeared between before and after.
+func checkTreeUnchanged(t *testing.T, before, after map[string]string) {
+	t.Helper()
+	if maps.Equal(before, after) {
+		return
 	}
-	for k, v := range a {
-		if w, ok := b[k]; !ok || w != v {
-			return false
+	for p, s := range before {
+		if a, ok := after[p]; !ok {
+			t.Errorf("evidence lost an item: %q", p)
+		} else if a != s {
+			t.Errorf("evidence changed: %q: %s → %s", p, s, a)
 		}
 	}
-	return true
+	for p := range after {
+		if _, ok := before[p]; !ok {
+			t.Errorf("evidence gained an item: %q", p)
+		}
+	}
 }
 
 // hostileWalk lists every non-folder item under dir by its slash path

@@ -114,15 +114,7 @@ func TestAuditInterrupt(t *testing.T) {
 	if err != nil && !errors.Is(err, os.ErrNotExist) {
 		t.Fatal(err)
 	}
-	after := treeState(t, evidence)
-	if len(after) != len(before) {
-		t.Errorf("evidence tree had %d items, now %d", len(before), len(after))
-	}
-	for p, s := range before {
-		if after[p] != s {
-			t.Errorf("evidence changed: %s: %q, now %q", p, s, after[p])
-		}
-	}
+	checkTreeUnchanged(t, before, treeState(t, evidence))
 }
 
 // buildGnomon builds the command into dir and returns the binary's path;
