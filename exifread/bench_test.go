@@ -6,7 +6,7 @@ import (
 	"sync"
 	"testing"
 
-	"github.com/gnomon-forensics/gnomon/exifread/internal/benchset"
+	"github.com/gnomon-forensics/gnomon/internal/testkit/benchset"
 )
 
 var (

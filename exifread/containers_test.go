@@ -5,8 +5,8 @@ import (
 	"encoding/binary"
 	"testing"
 
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite"
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite/fixtures"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite/fixtures"
 )
 
 // TestContainerVariants: brands and magic numbers of the same structures

@@ -8,8 +8,8 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite"
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite/fixtures"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite/fixtures"
 )
 
 // The fixtures are built by package exifwrite from known values; each field

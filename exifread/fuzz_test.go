@@ -7,8 +7,8 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite"
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite/fixtures"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite/fixtures"
 )
 
 // Fuzz targets for each container walker, the TIFF validator, the XMP

@@ -10,8 +10,8 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite"
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite/fixtures"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite/fixtures"
 )
 
 // Regression tests for the goexif failures listed in issue 3 ("goexif needs

@@ -7,7 +7,7 @@ import (
 	"testing"
 	"time"
 
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
 )
 
 func TestParseExifDate(t *testing.T) {

@@ -11,7 +11,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/gnomon-forensics/gnomon/internal/browsertest"
+	"github.com/gnomon-forensics/gnomon/internal/testkit/browsertest"
 )
 
 func tail(s string, n int) string {

@@ -9,7 +9,7 @@ import (
 	"testing"
 	"unicode/utf8"
 
-	"github.com/gnomon-forensics/gnomon/internal/browsertest"
+	"github.com/gnomon-forensics/gnomon/internal/testkit/browsertest"
 )
 
 // FuzzJSON: for any bytes in photo strings and any number, report.json is

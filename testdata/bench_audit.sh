@@ -1,7 +1,7 @@
 #!/usr/bin/env bash
 # Audit benchmark (issue: the audit end to end). In one run, over the same
 # folder of N generated multi-megabyte JPEGs (3000x2000, about 2.7 MB each,
-# camera-like EXIF; exifread/internal/benchset), it times:
+# camera-like EXIF; internal/testkit/benchset), it times:
 #   1. gnomon audit without thumbnails (all four reports);
 #   2. a single-threaded Go crypto/sha256 pass over the files (the floor:
 #      every byte must be hashed);
@@ -22,10 +22,10 @@ tmp="$(mktemp -d)"
 trap 'rm -rf "$tmp"' EXIT
 cd "$root"
 go build -o "$tmp/gnomon" ./cmd/gnomon
-go build -o "$tmp/hashpass" ./internal/benchtools/hashpass
-go run ./exifread/internal/benchset/gen -thumb -n "$n" -out "$tmp/photos"
-go run ./exifread/internal/benchset/gen -thumb -n "$((n / 4))" -out "$tmp/quarter"
-go run ./exifread/internal/benchset/gen -n 50 -out "$tmp/nopreview"
+go build -o "$tmp/hashpass" ./internal/testkit/hashpass
+go run ./internal/testkit/benchset/gen -thumb -n "$n" -out "$tmp/photos"
+go run ./internal/testkit/benchset/gen -thumb -n "$((n / 4))" -out "$tmp/quarter"
+go run ./internal/testkit/benchset/gen -n 50 -out "$tmp/nopreview"
 mb=$(du -sm "$tmp/photos" | cut -f1)
 echo "$(go version); $(nproc) cores; $n files, $mb MB"
 cat "$tmp"/photos/* > /dev/null

@@ -4,7 +4,7 @@
 # 100000 200000) it generates N small JPEGs (about 2 to 20 KB, with EXIF
 # from exifwrite: four invented cameras, three with GPS time, so the camera
 # clock models are fitted on tens of thousands of evidence points;
-# internal/benchtools/smallset), audits them with all four reports and
+# internal/testkit/smallset), audits them with all four reports and
 # thumbnails, and prints the wall time and the peak resident memory (GNU
 # time), so flatness can be judged side by side in one run.
 # Usage: testdata/bench_scale.sh [N...]. Needs go, bc and /usr/bin/time
@@ -21,7 +21,7 @@ cd "$root"
 go build -o "$tmp/gnomon" ./cmd/gnomon
 echo "$(go version); $(nproc) cores"
 for n in "${sizes[@]}"; do
-	go run ./internal/benchtools/smallset/gen -n "$n" -out "$tmp/ev" >/dev/null
+	go run ./internal/testkit/smallset/gen -n "$n" -out "$tmp/ev" >/dev/null
 	r=$(/usr/bin/time -f '%e %M' "$tmp/gnomon" audit "$tmp/ev" --out "$tmp/rep" --quiet 2>&1 >/dev/null | tail -1)
 	set -- $r
 	printf '%7d files (%4d MB): wall %7.1f s   peak RSS %5.0f MB   reports %s\n' "$n" "$(du -sm "$tmp/ev" | cut -f1)" "$1" "$(echo "$2/1024" | bc -l)" \

@@ -9,8 +9,8 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite"
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite/fixtures"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite/fixtures"
 )
 
 // makeEvidence writes a small evidence folder: photos made with our EXIF

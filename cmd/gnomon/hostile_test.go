@@ -22,13 +22,13 @@ import (
 	"unicode"
 	"unicode/utf8"
 
-	"github.com/gnomon-forensics/gnomon/internal/browsertest"
-	"github.com/gnomon-forensics/gnomon/internal/hostile"
+	"github.com/gnomon-forensics/gnomon/internal/testkit/browsertest"
+	"github.com/gnomon-forensics/gnomon/internal/testkit/hostile"
 	"github.com/gnomon-forensics/gnomon/report"
 )
 
 // TestHostileCorpus audits the damaged and hostile corpus of issue 6
-// (internal/hostile) end to end and checks what the issue demands of every
+// (internal/testkit/hostile) end to end and checks what the issue demands of every
 // report. Each check names its source: the issue text, RFC 4180 (CSV),
 // RFC 8259 (JSON), RFC 7946 (GeoJSON), OWASP's CSV-injection guidance.
 func TestHostileCorpus(t *testing.T) {

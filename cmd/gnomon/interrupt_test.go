@@ -14,7 +14,7 @@ import (
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/internal/audit"
-	"github.com/gnomon-forensics/gnomon/internal/benchtools/smallset"
+	"github.com/gnomon-forensics/gnomon/internal/testkit/smallset"
 	"github.com/gnomon-forensics/gnomon/solarcheck"
 	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
 )

@@ -8,7 +8,7 @@ import (
 	"syscall"
 	"testing"
 
-	"github.com/gnomon-forensics/gnomon/internal/benchtools/smallset"
+	"github.com/gnomon-forensics/gnomon/internal/testkit/smallset"
 	"github.com/gnomon-forensics/gnomon/report"
 )
 

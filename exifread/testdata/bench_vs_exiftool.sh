@@ -1,7 +1,7 @@
 #!/usr/bin/env bash
 # Times the reference reader (Debian's libimage-exiftool-perl, `exiftool -n -json`)
 # and `gnomon meta --json` over the same folder of N realistic multi-megabyte
-# JPEGs (3000x2000, about 2.7 MB, written by exifread/internal/benchset), in
+# JPEGs (3000x2000, about 2.7 MB, written by internal/testkit/benchset), in
 # the same run, and prints the ratio. Usage: bench_vs_exiftool.sh [N] (default 1000).
 # Needs: go, exiftool. Writes only to a temporary folder, removed at exit.
 set -euo pipefail
@@ -12,7 +12,7 @@ tmp="$(mktemp -d)"
 trap 'rm -rf "$tmp"' EXIT
 cd "$root"
 go build -o "$tmp/gnomon" ./cmd/gnomon
-go run ./exifread/internal/benchset/gen -n "$n" -out "$tmp/photos"
+go run ./internal/testkit/benchset/gen -n "$n" -out "$tmp/photos"
 echo "exiftool $(exiftool -ver); $(go version)"
 cat "$tmp"/photos/* > /dev/null # warm the page cache so both readers see the same state
 

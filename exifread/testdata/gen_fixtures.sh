@@ -14,7 +14,7 @@ cd "$root"
 mkdir -p "$fx"
 
 echo "== writing fixtures with package exifwrite"
-go run ./exifread/exifwrite/fixtures/gen -out "$fx"
+go run ./internal/exifwrite/fixtures/gen -out "$fx"
 
 echo "== real HEIC from libheif (heif-enc copies the JPEG's Exif into an Exif item)"
 heifver="$(heif-enc --help 2>&1 | head -1 | sed 's/.*libheif version: *//')"

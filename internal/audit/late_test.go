@@ -7,7 +7,7 @@ import (
 	"testing"
 
 	"github.com/gnomon-forensics/gnomon/exifread"
-	"github.com/gnomon-forensics/gnomon/internal/benchtools/smallset"
+	"github.com/gnomon-forensics/gnomon/internal/testkit/smallset"
 	"github.com/gnomon-forensics/gnomon/report"
 	"github.com/gnomon-forensics/gnomon/solarcheck"
 	"github.com/gnomon-forensics/gnomon/solarcheck/zone"

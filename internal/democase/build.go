@@ -22,7 +22,7 @@ import (
 
 	"golang.org/x/image/draw"
 
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
 	"github.com/gnomon-forensics/gnomon/solarcheck/geomag"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
 	"github.com/gnomon-forensics/gnomon/solarcheck/zone"

@@ -1,6 +1,6 @@
 // Package democase builds the invented case that `gnomon demo` audits: a
 // folder of small JPEG photos rendered by code, their EXIF written by our own
-// writer (exifread/exifwrite), a filled measurement sheet and a short story.
+// writer (internal/exifwrite), a filled measurement sheet and a short story.
 // Everything in it is fictional demo data: the town, the people, the
 // cameras and the claim are made up; only the coordinates (a point on the
 // coast of Maine, USA, zone America/New_York) and the sun are real.

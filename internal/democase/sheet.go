@@ -9,7 +9,7 @@ import (
 	"os"
 	"strconv"
 
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
 	"github.com/gnomon-forensics/gnomon/internal/angle"
 )
 

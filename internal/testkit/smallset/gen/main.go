@@ -1,6 +1,6 @@
 // Command gen writes the scale benchmark's folder of small photos:
 //
-//	go run ./internal/benchtools/smallset/gen -n 100000 -out DIR [-big K]
+//	go run ./internal/testkit/smallset/gen -n 100000 -out DIR [-big K]
 package main
 
 import (
@@ -9,7 +9,7 @@ import (
 	"os"
 	"time"
 
-	"github.com/gnomon-forensics/gnomon/internal/benchtools/smallset"
+	"github.com/gnomon-forensics/gnomon/internal/testkit/smallset"
 )
 
 func main() {

@@ -13,11 +13,11 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite"
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite/fixtures"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite/fixtures"
 )
 
-const testdata = "../testdata"
+const testdata = "../../exifread/testdata"
 
 // exiftoolTable is the layout of the tables written by
 // testdata/exiftool_json.py.

@@ -5,7 +5,7 @@ import (
 	"os"
 	"path/filepath"
 
-	"github.com/gnomon-forensics/gnomon/internal/hostile"
+	"github.com/gnomon-forensics/gnomon/internal/testkit/hostile"
 )
 
 // Write builds the corpus and returns its manifest.

@@ -8,7 +8,7 @@ import (
 	"image/color"
 	"image/jpeg"
 
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
 )
 
 // tinyJPEG encodes a 4x4 grey picture, the base image of the examples.

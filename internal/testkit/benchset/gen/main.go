@@ -1,4 +1,4 @@
-// Command gen writes the benchmark photo folder: go run ./exifread/internal/benchset/gen -n 1000 -out DIR [-thumb]
+// Command gen writes the benchmark photo folder: go run ./internal/testkit/benchset/gen -n 1000 -out DIR [-thumb]
 package main
 
 import (
@@ -6,7 +6,7 @@ import (
 	"fmt"
 	"os"
 
-	"github.com/gnomon-forensics/gnomon/exifread/internal/benchset"
+	"github.com/gnomon-forensics/gnomon/internal/testkit/benchset"
 )
 
 func main() {

@@ -8,7 +8,7 @@ import (
 
 	"github.com/rwcarlsen/goexif/tiff"
 
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
 )
 
 // FuzzPayload builds IFD0 entries from fuzz bytes (tag, type, count, value

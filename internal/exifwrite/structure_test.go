@@ -19,8 +19,8 @@ import (
 	xtiff "golang.org/x/image/tiff"
 	"golang.org/x/image/webp"
 
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite"
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite/fixtures"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite/fixtures"
 )
 
 func fullPayload(t *testing.T, o binary.ByteOrder) (exifwrite.Payload, []byte) {

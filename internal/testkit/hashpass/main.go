@@ -3,7 +3,7 @@
 // crypto/sha256, as any audit must at least do. It prints the file count,
 // the bytes hashed and the time taken.
 //
-//	go run ./internal/benchtools/hashpass DIR...
+//	go run ./internal/testkit/hashpass DIR...
 package main
 
 import (

@@ -7,7 +7,7 @@ import (
 	"io"
 	"testing"
 
-	"github.com/gnomon-forensics/gnomon/exifread/exifwrite"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
 )
 
 // TestDMS: decimal degrees to degrees/minutes/seconds, worked by hand
