@@ -9,8 +9,8 @@ import (
 	"os"
 	"strconv"
 
-	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
 	"github.com/gnomon-forensics/gnomon/internal/angle"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
 )
 
 // sheetColumns is the header of measurements.csv, in the order of the
