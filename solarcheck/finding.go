@@ -37,22 +37,26 @@ const (
 	Skipped   Status = "skipped"   // the check did not apply (no witness, or a reason given)
 )
 
-// Check kinds: our names for the independent witnesses.
+// Kind names a check: our names for the independent witnesses. The words
+// are binding, like Verdict's: they are the JSON field "kind" of a check.
+type Kind string
+
+// Check kinds.
 const (
-	KindShadowTime   = "shadow_time"  // sun direction from shadows/sightings vs the sun at the claimed moment
-	KindSunUp        = "sun_up"       // shadows need the sun above the horizon
-	KindGPSClock     = "gps_clock"    // camera clock vs the GPS receiver's UTC
-	KindOffsetTag    = "offset_tag"   // the camera's OffsetTime tag vs the place's zone
-	KindLight        = "light"        // exposure vs expected daylight (a hint)
-	KindShadowPlace  = "shadow_place" // position from the shadows vs the GPS tag
-	KindCameraClock  = "camera_clock" // this photo vs its camera's fitted clock
-	KindShotOrder    = "shot_order"   // capture order vs file numbering
-	KindMeasurements = "measurements" // agreement between the objects measured in one photo
+	KindShadowTime   Kind = "shadow_time"  // sun direction from shadows/sightings vs the sun at the claimed moment
+	KindSunUp             = "sun_up"       // shadows need the sun above the horizon
+	KindGPSClock          = "gps_clock"    // camera clock vs the GPS receiver's UTC
+	KindOffsetTag         = "offset_tag"   // the camera's OffsetTime tag vs the place's zone
+	KindLight             = "light"        // exposure vs expected daylight (a hint)
+	KindShadowPlace       = "shadow_place" // position from the shadows vs the GPS tag
+	KindCameraClock       = "camera_clock" // this photo vs its camera's fitted clock
+	KindShotOrder         = "shot_order"   // capture order vs file numbering
+	KindMeasurements      = "measurements" // agreement between the objects measured in one photo
 )
 
 // Check is one witness's testimony about one photo.
 type Check struct {
-	Kind   string
+	Kind   Kind
 	Status Status
 	// Figure is the check's number in Unit (an offset in seconds, a distance
 	// in km, an exposure difference in EV); HasFigure is false when there is none.
@@ -187,7 +191,7 @@ type Basis struct {
 func (f *Finding) check(c Check) { f.Checks = append(f.Checks, c) }
 
 // Check returns the check of the given kind, if f has one.
-func (f *Finding) Check(kind string) (Check, bool) {
+func (f *Finding) Check(kind Kind) (Check, bool) {
 	for _, c := range f.Checks {
 		if c.Kind == kind {
 			return c, true

@@ -141,7 +141,7 @@ func photo(e Entry, s *stored) report.Photo {
 		p.BestFit = &s
 	}
 	for _, c := range f.Checks {
-		rc := report.Check{Kind: c.Kind, Status: string(c.Status), Unit: c.Unit, Sentence: c.Sentence}
+		rc := report.Check{Kind: string(c.Kind), Status: string(c.Status), Unit: c.Unit, Sentence: c.Sentence}
 		if c.HasFigure {
 			rc.Figure = ptr(round(c.Figure, 3))
 		}
