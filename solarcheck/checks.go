@@ -29,7 +29,7 @@ const (
 // sun at the claimed moment: the offset (claimed minus best-fitting time)
 // with its 95 % interval, and whether the sun was up at all.
 func (x *Examiner) checkShadows(f *Finding, p Photo) {
-	ds, problems := directions(p.Rows, f.LatDeg, f.LonDeg, f.HasPlace, f.Claimed)
+	ds, problems := directions(p.Measurements, f.LatDeg, f.LonDeg, f.HasPlace, f.Claimed)
 	for _, pr := range problems {
 		f.check(Check{Kind: KindMeasurements, Status: Skipped, Sentence: "A measurement could not be used: " + pr + "."})
 	}

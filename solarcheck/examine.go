@@ -117,11 +117,11 @@ func (x *Examiner) Examine(p Photo) Finding {
 		return f
 	}
 
-	override := sheetTimeOverride(p)
-	if wall.IsZero() && override.wall != nil {
-		f.Wall, f.WallTag = *override.wall, "sheet time"
+	override := p.Override
+	if wall.IsZero() && !override.Wall.IsZero() {
+		f.Wall, f.WallTag = override.Wall, "sheet time"
 	}
-	if f.Wall.IsZero() && override.text == "" {
+	if f.Wall.IsZero() && !override.Time.HasInstant {
 		f.Verdict = Unverified
 		f.Explanation = "The file holds no usable capture time"
 		if wallErr != nil {
@@ -137,7 +137,7 @@ func (x *Examiner) Examine(p Photo) Finding {
 
 	claim, err := x.zones.Claim(zone.ClaimInput{
 		Wall:     f.Wall,
-		Override: override.text,
+		Override: override.Time,
 		HasPlace: f.HasPlace,
 		LatDeg:   f.LatDeg,
 		LonDeg:   f.LonDeg,
@@ -256,34 +256,7 @@ func (x *Examiner) place(f *Finding, p Photo) {
 		}
 		return
 	}
-	for _, r := range p.Rows {
-		if r.Lat != nil && r.Lon != nil {
-			f.LatDeg, f.LonDeg, f.HasPlace, f.PlaceSource = *r.Lat, *r.Lon, true, "sheet"
-			return
-		}
+	if o := p.Override; o.HasPlace {
+		f.LatDeg, f.LonDeg, f.HasPlace, f.PlaceSource = o.LatDeg, o.LonDeg, true, "sheet"
 	}
-}
-
-// timeOverride is the examiner's time for a photo: either a full override
-// text for zone.Claim (RFC 3339) or a wall reading for a photo that has none.
-type timeOverride struct {
-	text string
-	wall *zone.Wall
-}
-
-func sheetTimeOverride(p Photo) timeOverride {
-	for _, r := range p.Rows {
-		if r.Time == nil {
-			continue
-		}
-		if r.Time.HasOffset {
-			return timeOverride{text: r.Time.Instant.Format(time.RFC3339Nano)}
-		}
-		t := r.Time.Instant
-		return timeOverride{wall: &zone.Wall{
-			Year: t.Year(), Month: t.Month(), Day: t.Day(),
-			Hour: t.Hour(), Minute: t.Minute(), Second: t.Second(), Nanosecond: t.Nanosecond(),
-		}}
-	}
-	return timeOverride{}
 }

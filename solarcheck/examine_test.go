@@ -2,6 +2,7 @@ package solarcheck
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"sync"
@@ -11,7 +12,6 @@ import (
 	"github.com/gnomon-forensics/gnomon/exifread"
 	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"github.com/gnomon-forensics/gnomon/solarcheck/shadow"
-	"github.com/gnomon-forensics/gnomon/solarcheck/sheet"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
 	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
 )
@@ -52,7 +52,8 @@ func (s scene) photo(t *testing.T, path string) Photo {
 	if s.camera == "" {
 		rec.Model = "S1"
 	}
-	var rows []sheet.Row
+	var ms []Measurement
+	var ov Override
 	if s.gps {
 		lat, lon := s.lat, s.lon
 		if s.gpsAt != nil {
@@ -61,7 +62,7 @@ func (s scene) photo(t *testing.T, path string) Photo {
 		rec.GPS.Position = &exifread.Position{LatDeg: &lat, LonDeg: &lon, Valid: true, Source: exifread.SourceEXIF}
 	} else {
 		lat, lon := s.lat, s.lon
-		rows = append(rows, sheet.Row{File: "sheet.csv", Line: 1, Kind: sheet.KindOverride, Photo: path, Lat: &lat, Lon: &lon})
+		ov = Override{HasPlace: true, LatDeg: lat, LonDeg: lon}
 	}
 	if s.gpsTime != nil {
 		rec.GPS.Time = &exifread.GPSTime{UTC: *s.gpsTime, HasDate: true, Valid: true, Source: exifread.SourceEXIF}
@@ -86,10 +87,10 @@ func (s scene) photo(t *testing.T, path string) Photo {
 			length *= 1 + s.noise.NormFloat64()*0.05
 		}
 		hh, ll, bb := h, length, angle.Norm360(bearing)
-		rows = append(rows, sheet.Row{File: "sheet.csv", Line: 2 + i, Kind: sheet.KindShadow, Photo: path, Object: "post",
-			ObjectHeight: &hh, ShadowLength: &ll, ShadowBearingDeg: &bb, BearingRef: sheet.RefTrue, BearingSDDeg: sd, LengthSDPct: 5})
+		ms = append(ms, Measurement{Source: fmt.Sprintf("sheet.csv line %d", 2+i), Kind: MeasureShadow, Object: "post",
+			ObjectHeight: hh, ShadowLength: ll, ShadowBearingDeg: bb, North: TrueNorth, BearingSDDeg: sd, LengthSDPct: 5})
 	}
-	return Photo{Path: path, Record: rec, Rows: rows}
+	return Photo{Path: path, Record: rec, Measurements: ms, Override: ov}
 }
 
 func mustLoc(t *testing.T, name string) *time.Location {

@@ -3,8 +3,6 @@ package solarcheck
 import (
 	"time"
 
-	"github.com/gnomon-forensics/gnomon/exifread"
-	"github.com/gnomon-forensics/gnomon/solarcheck/sheet"
 	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
 )
 
@@ -112,17 +110,6 @@ type Direction struct {
 // Fix is a place on Earth with a 95 % radius.
 type Fix struct {
 	LatDeg, LonDeg, RadiusKm float64
-}
-
-// Photo is the input for one photo: what the file says and what the
-// examiner measured in it.
-type Photo struct {
-	// Path identifies the photo in messages and reports (relative to its
-	// input root, slash form).
-	Path   string
-	Record exifread.Record
-	// Rows are the measurement-sheet rows resolved to this photo.
-	Rows []sheet.Row
 }
 
 // Finding is everything the checks concluded about one photo.

@@ -9,42 +9,39 @@ import (
 	"github.com/gnomon-forensics/gnomon/solarcheck/geomag"
 	"github.com/gnomon-forensics/gnomon/solarcheck/invert"
 	"github.com/gnomon-forensics/gnomon/solarcheck/shadow"
-	"github.com/gnomon-forensics/gnomon/solarcheck/sheet"
 )
 
-// directions turns the sheet rows of a photo into sun directions in
-// true-north degrees, one per measured object. Rows that cannot be turned
+// directions turns the examiner's measurements of a photo into sun
+// directions in true-north degrees, one per measured object. Measurements
+// that cannot be turned
 // (a magnetic bearing outside the magnetic model's years with no explicit
 // declination, a shadow the geometry refuses) are reported in problems.
-func directions(rows []sheet.Row, latDeg, lonDeg float64, hasPlace bool, at time.Time) (ds []Direction, problems []string) {
+func directions(rows []Measurement, latDeg, lonDeg float64, hasPlace bool, at time.Time) (ds []Direction, problems []string) {
 	for _, r := range rows {
-		if r.Kind != sheet.KindShadow && r.Kind != sheet.KindShadowBearing && r.Kind != sheet.KindSighting {
-			continue
-		}
 		corr, err := bearingCorrection(r, latDeg, lonDeg, hasPlace, at)
 		if err != nil {
-			problems = append(problems, fmt.Sprintf("%s line %d: %v", r.File, r.Line, err))
+			problems = append(problems, fmt.Sprintf("%s: %v", r.Source, err))
 			continue
 		}
 		d := Direction{Object: r.Object}
 		switch r.Kind {
-		case sheet.KindShadow:
+		case MeasureShadow:
 			est, err := shadow.Propagate(shadow.Shadow{
-				Height:     *r.ObjectHeight,
-				Length:     *r.ShadowLength,
-				BearingDeg: angle.Norm360(*r.ShadowBearingDeg + corr),
+				Height:     r.ObjectHeight,
+				Length:     r.ShadowLength,
+				BearingDeg: angle.Norm360(r.ShadowBearingDeg + corr),
 				Ground:     shadow.Ground{SlopeDeg: r.SlopeDeg, TowardDeg: angle.Norm360(r.SlopeTowardDeg + corr)},
 			}, shadow.Uncertainty{LengthSDPct: r.LengthSDPct, BearingSDDeg: r.BearingSDDeg})
 			if err != nil {
-				problems = append(problems, fmt.Sprintf("%s line %d: %v", r.File, r.Line, err))
+				problems = append(problems, fmt.Sprintf("%s: %v", r.Source, err))
 				continue
 			}
 			d.AzimuthDeg, d.AzimuthSDDeg, d.HasAzimuth = est.Sun.AzimuthDeg, est.AzimuthSDDeg, true
 			d.AltitudeDeg, d.AltitudeSDDeg, d.HasAltitude = est.Sun.AltitudeDeg, est.AltitudeSDDeg, true
 			d.Correlation = est.Correlation
-		case sheet.KindShadowBearing:
-			d.AzimuthDeg, d.AzimuthSDDeg, d.HasAzimuth = angle.Norm360(*r.ShadowBearingDeg+corr+180), r.BearingSDDeg, true
-		case sheet.KindSighting:
+		case MeasureShadowBearing:
+			d.AzimuthDeg, d.AzimuthSDDeg, d.HasAzimuth = angle.Norm360(r.ShadowBearingDeg+corr+180), r.BearingSDDeg, true
+		case MeasureSighting:
 			if r.SunAzimuthDeg != nil {
 				d.AzimuthDeg, d.AzimuthSDDeg, d.HasAzimuth = angle.Norm360(*r.SunAzimuthDeg+corr), r.BearingSDDeg, true
 			}
@@ -52,6 +49,8 @@ func directions(rows []sheet.Row, latDeg, lonDeg float64, hasPlace bool, at time
 				// A sighted altitude is taken with the same 1-sigma as the bearing.
 				d.AltitudeDeg, d.AltitudeSDDeg, d.HasAltitude = *r.SunAltitudeDeg, r.BearingSDDeg, true
 			}
+		default:
+			continue
 		}
 		ds = append(ds, d)
 	}
@@ -61,9 +60,9 @@ func directions(rows []sheet.Row, latDeg, lonDeg float64, hasPlace bool, at time
 // bearingCorrection is what to add to a bearing in the row's reference to
 // make it a true bearing: the magnetic declination (east positive) for
 // magnetic bearings, the grid convergence for grid bearings.
-func bearingCorrection(r sheet.Row, latDeg, lonDeg float64, hasPlace bool, at time.Time) (float64, error) {
-	switch r.BearingRef {
-	case sheet.RefMagnetic:
+func bearingCorrection(r Measurement, latDeg, lonDeg float64, hasPlace bool, at time.Time) (float64, error) {
+	switch r.North {
+	case MagneticNorth:
 		if r.DeclinationDeg != nil {
 			return *r.DeclinationDeg, nil
 		}
@@ -75,7 +74,7 @@ func bearingCorrection(r sheet.Row, latDeg, lonDeg float64, hasPlace bool, at ti
 			return 0, fmt.Errorf("magnetic bearing: %w; give the declination in the sheet's declination column", err)
 		}
 		return fld.Main.DeclinationDeg, nil
-	case sheet.RefGrid:
+	case GridNorth:
 		if !hasPlace {
 			return 0, fmt.Errorf("grid bearing needs a place for the meridian convergence")
 		}

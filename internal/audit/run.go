@@ -210,7 +210,8 @@ func (o Options) process(i int, e Entry, rows []sheet.Row) stored {
 		s.Thumbnail = o.Thumbs(i, e, &rec)
 	}
 	rec.Thumbnail = nil // the preview has served
-	s.Finding = o.Examiner.Examine(solarcheck.Photo{Path: e.Rel, Record: rec, Rows: rows})
+	ms, ov := examinerInput(rows)
+	s.Finding = o.Examiner.Examine(solarcheck.Photo{Path: e.Rel, Record: rec, Measurements: ms, Override: ov})
 	return s
 }
 

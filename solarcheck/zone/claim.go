@@ -26,14 +26,67 @@ type ClaimInput struct {
 	// Wall is the camera's wall time; zero if the photo has none. Wall.HasOffset
 	// marks an offset tag (EXIF OffsetTimeOriginal or similar).
 	Wall Wall
-	// Override is the examiner's: an RFC 3339 time ("2025-06-01T12:00:00+02:00"), a
-	// fixed offset ("+05:30", "-0300", "UTC+5:30", "Z"), or an IANA zone name
-	// ("Europe/Berlin", "Etc/GMT+3"). Empty for none. "GMT+3" is refused as
-	// ambiguous (ISO and POSIX readings differ in sign).
-	Override string
+	// Override is the examiner's statement of the time, zone or offset; the zero
+	// Override is none. ParseOverride reads it from text.
+	Override Override
 	// HasPlace marks LatDeg/LonDeg as known (geodetic degrees, east positive).
 	HasPlace       bool
 	LatDeg, LonDeg float64
+}
+
+// Override is the examiner's statement about a photo's time, as values, so that
+// any reader (a sheet column, a command-line flag) hands it over without a
+// round trip through text. At most one form is set.
+type Override struct {
+	// Instant replaces the camera's time entirely: a full time whose location
+	// carries the offset the examiner wrote. HasInstant marks it.
+	Instant    time.Time
+	HasInstant bool
+	// OffsetSec (local minus UTC, seconds) reads the camera's wall time at a
+	// fixed offset. HasOffset marks it.
+	OffsetSec int
+	HasOffset bool
+	// Zone reads the camera's wall time in an IANA zone ("Europe/Berlin",
+	// "Etc/GMT+3"); Claim refuses a name the tz database does not hold.
+	Zone string
+}
+
+// IsZero reports whether o states nothing.
+func (o Override) IsZero() bool { return !o.HasInstant && !o.HasOffset && o.Zone == "" }
+
+// String renders o as the examiner would write it: an RFC 3339 time, an offset
+// "±hh:mm", or the zone name; "" for none.
+func (o Override) String() string {
+	switch {
+	case o.HasInstant:
+		return o.Instant.Format(time.RFC3339Nano)
+	case o.HasOffset:
+		return formatOffset(o.OffsetSec)
+	}
+	return o.Zone
+}
+
+// ParseOverride reads an override written as text: an RFC 3339 time
+// ("2025-06-01T12:00:00+02:00"), a fixed offset ("+05:30", "-0300", "UTC+5:30",
+// "Z") or a zone name ("Europe/Berlin", "Etc/GMT+3"). Empty text is no override.
+// "GMT+3" is refused as ambiguous (ISO and POSIX readings differ in sign). Zone
+// names are checked by Claim, against the tz database it uses.
+func ParseOverride(s string) (Override, error) {
+	s = strings.TrimSpace(s)
+	if s == "" {
+		return Override{}, nil
+	}
+	if t, err := time.Parse(time.RFC3339Nano, s); err == nil {
+		return Override{Instant: t, HasInstant: true}, nil
+	}
+	off, ok, err := parseFixedOffset(s)
+	if err != nil {
+		return Override{}, &Error{Op: "override", Input: s, Err: fmt.Errorf("%w: %w", ErrBadOverride, err)}
+	}
+	if ok {
+		return Override{OffsetSec: off, HasOffset: true}, nil
+	}
+	return Override{Zone: s}, nil
 }
 
 // Claimed is the UTC instant (or instants) a photo claims, and how it was decided.
@@ -68,7 +121,7 @@ func (f *Finder) Claim(in ClaimInput) (Claimed, error) {
 			return Claimed{}, fmt.Errorf("zone: claim: %w", err)
 		}
 	}
-	override := strings.TrimSpace(in.Override)
+	override := in.Override
 
 	// (1) Offset tag.
 	if hasWall && in.Wall.HasOffset {
@@ -80,7 +133,7 @@ func (f *Finder) Claim(in ClaimInput) (Claimed, error) {
 			UTC: in.Wall.asUTC().Add(-sec(in.Wall.OffsetSec)), OffsetSec: in.Wall.OffsetSec,
 			Zone: label, Kind: Normal, Real: true,
 		}}
-		if override != "" {
+		if !override.IsZero() {
 			out.Notes = append(out.Notes, fmt.Sprintf("examiner override %q not used: the offset tag takes precedence", override))
 		}
 		if in.HasPlace {
@@ -90,7 +143,7 @@ func (f *Finder) Claim(in ClaimInput) (Claimed, error) {
 	}
 
 	// (2) Examiner's override.
-	if override != "" {
+	if !override.IsZero() {
 		if err := f.claimOverride(in, override, &out); err != nil {
 			return Claimed{}, err
 		}
@@ -128,36 +181,37 @@ func (f *Finder) Claim(in ClaimInput) (Claimed, error) {
 	return out, nil
 }
 
-func (f *Finder) claimOverride(in ClaimInput, s string, out *Claimed) error {
+func (f *Finder) claimOverride(in ClaimInput, o Override, out *Claimed) error {
 	hasWall := !in.Wall.IsZero()
-	// Full RFC 3339 time: needs no wall time.
-	if t, err := time.Parse(time.RFC3339Nano, s); err == nil {
-		_, off := t.Zone()
+	// A full time needs no wall time.
+	if o.HasInstant {
+		_, off := o.Instant.Zone()
 		out.Rule = RuleOverrideTime
 		out.Zones = []string{formatOffset(off)}
 		out.Kind = Normal
-		out.Candidates = []Candidate{{UTC: t.UTC(), OffsetSec: off, Zone: formatOffset(off), Kind: Normal, Real: true}}
+		out.Candidates = []Candidate{{UTC: o.Instant.UTC(), OffsetSec: off, Zone: formatOffset(off), Kind: Normal, Real: true}}
 		if hasWall {
 			out.Notes = append(out.Notes, "camera wall time "+in.Wall.String()+" replaced by the examiner's RFC 3339 time")
 		}
 		return nil
 	}
 	if !hasWall {
-		return &Error{Op: "claim", Input: s, Err: fmt.Errorf("%w: an offset or zone override needs a wall time; give a full RFC 3339 time", ErrBadOverride)}
+		return &Error{Op: "claim", Input: o.String(), Err: fmt.Errorf("%w: an offset or zone override needs a wall time; give a full RFC 3339 time", ErrBadOverride)}
 	}
-	if off, ok, err := parseFixedOffset(s); err != nil {
-		return &Error{Op: "claim", Input: s, Err: fmt.Errorf("%w: %w", ErrBadOverride, err)}
-	} else if ok {
-		label := formatOffset(off)
+	if o.HasOffset {
+		if o.OffsetSec < -maxOffsetSec || o.OffsetSec > maxOffsetSec {
+			return &Error{Op: "claim", Input: o.String(), Err: fmt.Errorf("%w: offset out of range", ErrBadOverride)}
+		}
+		label := formatOffset(o.OffsetSec)
 		out.Rule = RuleOverrideOffset
 		out.Zones = []string{label}
 		out.Kind = Normal
-		out.Candidates = []Candidate{{UTC: in.Wall.asUTC().Add(-sec(off)), OffsetSec: off, Zone: label, Kind: Normal, Real: true}}
+		out.Candidates = []Candidate{{UTC: in.Wall.asUTC().Add(-sec(o.OffsetSec)), OffsetSec: o.OffsetSec, Zone: label, Kind: Normal, Real: true}}
 		return nil
 	}
-	loc, err := f.db.Load(s)
+	loc, err := f.db.Load(o.Zone)
 	if err != nil {
-		return &Error{Op: "claim", Input: s, Err: fmt.Errorf("%w: not an RFC 3339 time, fixed offset or known zone name: %w", ErrBadOverride, err)}
+		return &Error{Op: "claim", Input: o.Zone, Err: fmt.Errorf("%w: not an RFC 3339 time, fixed offset or known zone name: %w", ErrBadOverride, err)}
 	}
 	res, err := Resolve(in.Wall, loc)
 	if err != nil {

@@ -39,7 +39,7 @@ func ExampleFinder_Claim() {
 	f := zone.NewFinder(nil)
 	c, err := f.Claim(zone.ClaimInput{
 		Wall:     zone.Wall{Year: 2025, Month: time.November, Day: 2, Hour: 1, Minute: 30},
-		Override: "America/New_York",
+		Override: zone.Override{Zone: "America/New_York"},
 	})
 	if err != nil {
 		panic(err)

@@ -431,17 +431,17 @@ func TestClaim(t *testing.T) {
 		notes  int // minimum number of notes
 		source string
 	}{
-		{"offset tag wins", ClaimInput{Wall: withOffset(wall(2025, 6, 1, 12, 0), hm(5, 30)), Override: "Europe/Berlin", HasPlace: true, LatDeg: berlin[0], LonDeg: berlin[1]},
+		{"offset tag wins", ClaimInput{Wall: withOffset(wall(2025, 6, 1, 12, 0), hm(5, 30)), Override: ov(t, "Europe/Berlin"), HasPlace: true, LatDeg: berlin[0], LonDeg: berlin[1]},
 			RuleOffsetTag, Normal, []time.Time{utc(2025, 6, 1, 6, 30)}, 2, "arithmetic: 12:00+05:30 = 06:30Z"},
-		{"override RFC 3339", ClaimInput{Override: "2025-06-01T12:00:00-03:00"},
+		{"override RFC 3339", ClaimInput{Override: ov(t, "2025-06-01T12:00:00-03:00")},
 			RuleOverrideTime, Normal, []time.Time{utc(2025, 6, 1, 15, 0)}, 0, "RFC 3339"},
-		{"override offset", ClaimInput{Wall: wall(2025, 6, 1, 12, 0), Override: "UTC+5:45", HasPlace: true, LatDeg: berlin[0], LonDeg: berlin[1]},
+		{"override offset", ClaimInput{Wall: wall(2025, 6, 1, 12, 0), Override: ov(t, "UTC+5:45"), HasPlace: true, LatDeg: berlin[0], LonDeg: berlin[1]},
 			RuleOverrideOffset, Normal, []time.Time{utc(2025, 6, 1, 6, 15)}, 1, "arithmetic"},
-		{"override Z", ClaimInput{Wall: wall(2025, 6, 1, 12, 0), Override: "Z"},
+		{"override Z", ClaimInput{Wall: wall(2025, 6, 1, 12, 0), Override: ov(t, "Z")},
 			RuleOverrideOffset, Normal, []time.Time{utc(2025, 6, 1, 12, 0)}, 0, "arithmetic"},
-		{"override zone in fold", ClaimInput{Wall: wall(2025, 11, 2, 1, 30), Override: "America/New_York"},
+		{"override zone in fold", ClaimInput{Wall: wall(2025, 11, 2, 1, 30), Override: ov(t, "America/New_York")},
 			RuleOverrideZone, Repeated, []time.Time{utc(2025, 11, 2, 5, 30), utc(2025, 11, 2, 6, 30)}, 1, "common knowledge"},
-		{"override Etc/GMT+3 (POSIX sign)", ClaimInput{Wall: wall(2025, 6, 1, 12, 0), Override: "Etc/GMT+3"},
+		{"override Etc/GMT+3 (POSIX sign)", ClaimInput{Wall: wall(2025, 6, 1, 12, 0), Override: ov(t, "Etc/GMT+3")},
 			RuleOverrideZone, Normal, []time.Time{utc(2025, 6, 1, 15, 0)}, 0, "IANA tz database Etc zones: Etc/GMT+3 is UTC−3"},
 		{"place zone", ClaimInput{Wall: wall(2025, 6, 1, 12, 0), HasPlace: true, LatDeg: berlin[0], LonDeg: berlin[1]},
 			RulePlaceZone, Normal, []time.Time{utc(2025, 6, 1, 10, 0)}, 0, "common knowledge: CEST"},
@@ -482,6 +482,52 @@ func TestClaim(t *testing.T) {
 	}
 }
 
+// ov parses an override the test writes as text.
+func ov(t *testing.T, s string) Override {
+	t.Helper()
+	o, err := ParseOverride(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return o
+}
+
+// TestParseOverride: each text form gives its value; the round trip through
+// String gives the same value; "GMT+3" is refused (ISO and POSIX signs differ).
+func TestParseOverride(t *testing.T) {
+	tests := []struct {
+		in   string
+		want Override
+		err  error
+	}{
+		{"", Override{}, nil},
+		{"+05:30", Override{OffsetSec: 19800, HasOffset: true}, nil},
+		{"UTC-3", Override{OffsetSec: -10800, HasOffset: true}, nil},
+		{"Z", Override{HasOffset: true}, nil},
+		{"Europe/Berlin", Override{Zone: "Europe/Berlin"}, nil},
+		{"2025-06-01T12:00:00-03:00", Override{Instant: time.Date(2025, 6, 1, 15, 0, 0, 0, time.UTC), HasInstant: true}, nil},
+		{"GMT+3", Override{}, ErrBadOverride},
+		{"UTC+25", Override{}, ErrBadOverride},
+	}
+	for _, tc := range tests {
+		got, err := ParseOverride(tc.in)
+		if !errors.Is(err, tc.err) {
+			t.Errorf("ParseOverride(%q) err = %v, want %v", tc.in, err, tc.err)
+			continue
+		}
+		if got.HasInstant != tc.want.HasInstant || !got.Instant.Equal(tc.want.Instant) ||
+			got.HasOffset != tc.want.HasOffset || got.OffsetSec != tc.want.OffsetSec || got.Zone != tc.want.Zone {
+			t.Errorf("ParseOverride(%q) = %+v, want %+v", tc.in, got, tc.want)
+		}
+		if err == nil && !tc.want.IsZero() {
+			back, err := ParseOverride(got.String())
+			if err != nil || back.String() != got.String() {
+				t.Errorf("round trip of %q: %q, %v", tc.in, back.String(), err)
+			}
+		}
+	}
+}
+
 func TestClaimErrors(t *testing.T) {
 	f := finder(t)
 	tests := []struct {
@@ -491,10 +537,9 @@ func TestClaimErrors(t *testing.T) {
 	}{
 		{"nothing", ClaimInput{}, ErrNoBasis},
 		{"wall only", ClaimInput{Wall: wall(2025, 6, 1, 12, 0)}, ErrNoBasis},
-		{"GMT+3 ambiguous", ClaimInput{Wall: wall(2025, 6, 1, 12, 0), Override: "GMT+3"}, ErrBadOverride},
-		{"unknown zone", ClaimInput{Wall: wall(2025, 6, 1, 12, 0), Override: "Europe/Atlantis"}, ErrBadOverride},
-		{"offset without wall", ClaimInput{Override: "+02:00"}, ErrBadOverride},
-		{"bad wall", ClaimInput{Wall: wall(2025, 2, 30, 12, 0), Override: "+02:00"}, ErrInvalidWall},
+		{"unknown zone", ClaimInput{Wall: wall(2025, 6, 1, 12, 0), Override: ov(t, "Europe/Atlantis")}, ErrBadOverride},
+		{"offset without wall", ClaimInput{Override: ov(t, "+02:00")}, ErrBadOverride},
+		{"bad wall", ClaimInput{Wall: wall(2025, 2, 30, 12, 0), Override: ov(t, "+02:00")}, ErrInvalidWall},
 		{"bad place", ClaimInput{Wall: wall(2025, 6, 1, 12, 0), HasPlace: true, LatDeg: 100}, ErrInvalidCoordinates},
 	}
 	for _, tc := range tests {
