@@ -11,6 +11,7 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+	"time"
 )
 
 // Tests against a general-purpose reference reader: tables of `exiftool -n
@@ -107,8 +108,8 @@ func compareWithExiftool(t *testing.T, rec Record, ref refTags, witness string, 
 		t.Helper()
 		t.Errorf("%s [%s]", fmt.Sprintf(format, a...), witness)
 	}
-	// Dates, with their sub-seconds and offsets (EXIF only: XMP values are
-	// compared by the fixture tests).
+	// Dates, with their sub-seconds and offsets, as EXIF writes them (a date
+	// taken from XMP is compared after this loop).
 	for _, d := range []struct {
 		name, tag, sub, off string
 		groups              []string
@@ -145,6 +146,22 @@ func compareWithExiftool(t *testing.T, rec Record, ref refTags, witness string, 
 			n++
 			if cleanText(d.got.OffsetRaw) != cleanText(text(off)) {
 				errf("%s offset %q, exiftool %s", d.name, d.got.OffsetRaw, off)
+			}
+		}
+	}
+
+	// A DateTimeOriginal taken from the XMP packet: exiftool prints the XMP
+	// date with colons and a space ("2022:03:20 15:33:00.5Z"); compare the
+	// instant and the wall clock it names.
+	if w := rec.DateTimeOriginal; w != nil && w.Source == SourceXMP {
+		if raw, ok := ref.get([]string{"XMP-exif"}, "DateTimeOriginal"); ok {
+			n++
+			want, err := time.Parse("2006:01:02 15:04:05.999999999Z07:00", text(raw))
+			got, okUTC := w.UTC()
+			if err != nil {
+				errf("XMP DateTimeOriginal: exiftool's %s unreadable: %v", raw, err)
+			} else if !okUTC || !got.Equal(want) || w.Hour != want.Hour() || w.Nanosecond != want.Nanosecond() {
+				errf("XMP DateTimeOriginal = %+v (UTC %v), exiftool %s", w, got, raw)
 			}
 		}
 	}

@@ -7,6 +7,7 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
 	"github.com/gnomon-forensics/gnomon/internal/exifwrite/fixtures"
@@ -156,17 +157,24 @@ func checkXMP(t *testing.T, rec Record, x *exifwrite.XMPFields, exifHasTime bool
 		if w == nil || !w.Valid {
 			t.Fatalf("DateTimeOriginal = %+v, want from XMP %q", w, x.DateTimeOriginal)
 		}
-		want := parseXMPDate(x.DateTimeOriginal, source)
-		if w.Year != want.Year || w.Month != want.Month || w.Day != want.Day || w.Hour != want.Hour || w.Minute != want.Minute || w.Second != want.Second {
+		// The expected wall clock comes from the standard library's RFC 3339
+		// parser, not from this reader: every XMP date the fixtures write is
+		// in the full form (date, time, zone), where XMP Part 1 §8.2.1.1 and
+		// RFC 3339 agree.
+		want, err := time.Parse(time.RFC3339Nano, x.DateTimeOriginal)
+		if err != nil {
+			t.Fatalf("fixture XMP date %q is not full RFC 3339: %v", x.DateTimeOriginal, err)
+		}
+		if w.Year != want.Year() || time.Month(w.Month) != want.Month() || w.Day != want.Day() || w.Hour != want.Hour() || w.Minute != want.Minute() || w.Second != want.Second() {
 			t.Errorf("DateTimeOriginal = %+v, want wall clock of %q", w, x.DateTimeOriginal)
 		}
-		if !exifHasTime && (w.Source != source || w.Nanosecond != want.Nanosecond) {
-			t.Errorf("DateTimeOriginal source %q ns %d, want %q ns %d", w.Source, w.Nanosecond, source, want.Nanosecond)
+		if !exifHasTime && (w.Source != source || w.Nanosecond != want.Nanosecond()) {
+			t.Errorf("DateTimeOriginal source %q ns %d, want %q ns %d", w.Source, w.Nanosecond, source, want.Nanosecond())
 		}
 		// The offset written in the XMP date must be on the record, from
 		// wherever it was taken.
-		if want.OffsetSec != nil && (w.OffsetSec == nil || *w.OffsetSec != *want.OffsetSec) {
-			t.Errorf("DateTimeOriginal offset = %v, want %d from %q", w.OffsetSec, *want.OffsetSec, x.DateTimeOriginal)
+		if _, off := want.Zone(); w.OffsetSec == nil || *w.OffsetSec != off {
+			t.Errorf("DateTimeOriginal offset = %v, want %d from %q", w.OffsetSec, off, x.DateTimeOriginal)
 		}
 	}
 	if x.LatDeg != nil && !exifHasTime {

@@ -15,6 +15,13 @@ var update = flag.Bool("update", false, "rewrite the golden files in testdata/")
 // fixture, so that a change of layout is a reviewed change (the files were
 // read by hand when written: go test ./report -run Golden -update). It also
 // shows reruns and other machines give byte-identical output (issue 5).
+//
+// These files are change detectors, not witnesses: they hold whatever the
+// writers printed when last updated, so a value that was wrong then is
+// pinned wrong. The correctness of each field comes from the tests that
+// compare it with an outside value (the writers' own tests against RFC 4180,
+// RFC 7946 and encoding/json; the astronomy, zone and clock packages against
+// their published references).
 func TestGolden(t *testing.T) {
 	tests := []struct {
 		file  string

@@ -5,6 +5,7 @@ import (
 	"encoding/xml"
 	"fmt"
 	"io"
+	"math"
 	"testing"
 
 	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
@@ -23,7 +24,11 @@ func TestDMS(t *testing.T) {
 		{-33.8688, "[{33 1} {52 1} {76800 10000}]", true, "by hand: 33 deg 52' 7.68\" S"},
 		{0.05 / 3600, "[{0 1} {0 1} {500 10000}]", false, "by hand: 0.05\""},
 		{59.99999999, "[{60 1} {0 1} {0 10000}]", false, "by hand: rounds up to 60 deg, no 60\" field"},
-		{-0.0, "[{0 1} {0 1} {0 10000}]", false, "by hand"},
+		{0, "[{0 1} {0 1} {0 10000}]", false, "by hand"},
+		// A literal -0.0 is +0 in Go (constant arithmetic has no signed
+		// zero); IEEE 754 negative zero needs math.Copysign. It compares
+		// equal to 0, so it must not read as the southern/western half.
+		{math.Copysign(0, -1), "[{0 1} {0 1} {0 10000}]", false, "IEEE 754: -0 == 0, not below zero"},
 		{180, "[{180 1} {0 1} {0 10000}]", false, "by hand"},
 	} {
 		dms, neg := exifwrite.DMS(tc.deg)
@@ -45,6 +50,7 @@ func TestXMPCoordinate(t *testing.T) {
 		{46.5197, "N", "S", "46,31.1820000N", "by hand: 0.5197 x 60 = 31.182"},
 		{-70.6693, "E", "W", "70,40.1580000W", "by hand: 0.6693 x 60 = 40.158"},
 		{-0.0015, "E", "W", "0,00.0900000W", "by hand: 0.0015 x 60 = 0.09"},
+		{math.Copysign(0, -1), "E", "W", "0,00.0000000E", "IEEE 754: -0 == 0, so the positive hemisphere"},
 		{12.99999999999, "N", "S", "13,00.0000000N", "by hand: rounds to 13 deg, never 60'"},
 	} {
 		if got := exifwrite.XMPCoordinate(tc.deg, tc.pos, tc.neg); got != tc.want {

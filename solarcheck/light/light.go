@@ -16,13 +16,13 @@
 //  4. Expected horizontal illuminance from sun and sky under a clear sky:
 //     the fit of U.S. Naval Observatory Circular 171 (Janiczek & DeYoung
 //     1987), log10 E = l0 + l1·x + l2·x² + l3·x³ with x = altitude/90°, six
-//     altitude ranges from −18° to 90°. The coefficients below are quoted FROM
-//     MEMORY, not from a copy of the circular; they were checked here only for
-//     continuity at the range boundaries (each join agrees to better than
-//     1.5 %, which a mis-remembered coefficient would be unlikely to keep) and
-//     against handbook figures (see the tests). Clouds divide the clear-sky
-//     value by about 3 (average overcast) to 10 (dark overcast), the factor
-//     range the circular recommends (from memory).
+//     altitude ranges from −18° to 90°. The coefficients are checked against
+//     the table reprinted in Vallado, Fundamentals of Astrodynamics and
+//     Applications (2001), Eq. 5-9 (not against the circular itself), for
+//     continuity at the range joins and against handbook figures (see the
+//     tests). Clouds divide the clear-sky value by about 3 (average
+//     overcast) to 10 (dark overcast), the factor range the circular
+//     recommends (from memory).
 //  5. The exposure agrees when the implied illuminance lies within the
 //     natural range [clear/OvercastFactor, max(clear, MoonLux)] widened by
 //     ToleranceEV stops each way: automatic exposure, scene reflectance and
@@ -81,7 +81,8 @@ func ImpliedLux(ev100 float64) float64 { return math.Pi * Luminance(ev100) / Ref
 
 // circ171 holds the clear-sky fit for the sun (sun + sky, horizontal
 // plane): for altitude above Min, log10 E[lux] = L0 + L1·x + L2·x² + L3·x³,
-// x = altitude/90. USNO Circular 171 (Janiczek & DeYoung 1987), FROM MEMORY.
+// x = altitude/90. USNO Circular 171 (Janiczek & DeYoung 1987), as tabled in
+// Vallado (2001) Eq. 5-9.
 var circ171 = []struct {
 	MinDeg         float64
 	L0, L1, L2, L3 float64

@@ -70,9 +70,8 @@ func TestClearSkyLux(t *testing.T) {
 			t.Errorf("%s: E(%v°) = %.4g lux not in [%g, %g]", c.source, c.altDeg, got, c.lo, c.hi)
 		}
 	}
-	// The coefficients are from memory: the six polynomial pieces of the
-	// published fit join continuously, which a mis-remembered coefficient
-	// would most likely break. Check every join to 1.5 %.
+	// The six polynomial pieces of the published fit join continuously;
+	// check every join to 1.5 %.
 	for i := 0; i+1 < len(circ171); i++ {
 		h := circ171[i].MinDeg
 		x := h / 90
@@ -80,7 +79,7 @@ func TestClearSkyLux(t *testing.T) {
 		ea := a.L0 + x*(a.L1+x*(a.L2+x*a.L3))
 		eb := b.L0 + x*(b.L1+x*(b.L2+x*b.L3))
 		if r := math.Pow(10, math.Abs(ea-eb)); r > 1.015 {
-			t.Errorf("from memory, internal consistency: pieces disagree by %.1f %% at %v°", (r-1)*100, h)
+			t.Errorf("internal consistency: pieces disagree by %.1f %% at %v°", (r-1)*100, h)
 		}
 	}
 	// Monotonic in altitude (more sun, more light): the inversion relies on it.
@@ -91,6 +90,36 @@ func TestClearSkyLux(t *testing.T) {
 			t.Fatalf("not increasing at %v°", h)
 		}
 		prev = e
+	}
+}
+
+// TestCirc171Coefficients holds the coefficients against the published
+// table: Vallado, Fundamentals of Astrodynamics and Applications (2nd ed.
+// 2001), pp. 295–297, Eq. 5-9 and its table of the USNO Circular 171 fit for
+// the sun, as printed in the author's companion routine sunill.m (ranges
+// h ≥ 20°, 5–20°, −0.8–5°, −5–−0.8°, −12–−5°, −18–−12°). The circular itself
+// was not at hand.
+func TestCirc171Coefficients(t *testing.T) {
+	const source = "Vallado 2001 Eq. 5-9 table (after USNO Circular 171)"
+	want := []struct {
+		minDeg         float64
+		l0, l1, l2, l3 float64
+	}{
+		{20, 3.74, 3.97, -4.07, 1.47},
+		{5, 3.05, 13.28, -45.98, 64.33},
+		{-0.8, 2.88, 22.26, -207.64, 1034.30},
+		{-5, 2.88, 21.81, -258.11, -858.36},
+		{-12, 2.70, 12.17, -431.69, -1899.83},
+		{-18, 13.84, 262.72, 1447.42, 2797.93},
+	}
+	if len(circ171) != len(want) {
+		t.Fatalf("%s: %d ranges, want %d", source, len(circ171), len(want))
+	}
+	for i, w := range want {
+		c := circ171[i]
+		if c.MinDeg != w.minDeg || c.L0 != w.l0 || c.L1 != w.l1 || c.L2 != w.l2 || c.L3 != w.l3 {
+			t.Errorf("%s: range %d = %+v, want %+v", source, i, c, w)
+		}
 	}
 }
 
