@@ -189,8 +189,6 @@ func walkJPEG(r io.ReaderAt, size int64, opt Options) *found {
 	}
 }
 
-var pngSig = "\x89PNG\r\n\x1a\n"
-
 // walkPNG reads chunk headers only, skipping image data, to find eXIf and
 // an iTXt XMP packet (PNG 3rd edition, section 11.3.3.6 / 11.3.4.5).
 func walkPNG(r io.ReaderAt, size int64, opt Options) *found {

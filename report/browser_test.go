@@ -1,7 +1,6 @@
 package report
 
 import (
-	"fmt"
 	"image"
 	_ "image/png"
 	"io"
@@ -168,10 +167,10 @@ func TestBrowserDetectorWorks(t *testing.T) {
 	bin := browsertest.Find(t)
 	dir := t.TempDir()
 	page := filepath.Join(dir, "control.html")
-	html := fmt.Sprintf(`<!DOCTYPE html><html><head><meta charset="utf-8">
+	html := `<!DOCTYPE html><html><head><meta charset="utf-8">
 <meta http-equiv="Content-Security-Policy" content="default-src 'none'; img-src 'self' data:; style-src 'unsafe-inline'">
 <title>control</title></head><body><p id="x">control</p><script>document.title = "ran"</script>
-<img src="thumbs/missing.jpg" alt=""></body></html>`)
+<img src="thumbs/missing.jpg" alt=""></body></html>`
 	if err := os.WriteFile(page, []byte(html), 0o644); err != nil {
 		t.Fatal(err)
 	}

@@ -216,14 +216,3 @@ func (x *Examiner) hypotheses(f *Finding, iv Interval) []hypothesis {
 }
 
 func secDur(s float64) time.Duration { return time.Duration(math.Round(s * 1e9)) }
-
-// sentenceList joins items as "a, b and c".
-func sentenceList(items []string) string {
-	switch len(items) {
-	case 0:
-		return ""
-	case 1:
-		return items[0]
-	}
-	return strings.Join(items[:len(items)-1], ", ") + " and " + items[len(items)-1]
-}

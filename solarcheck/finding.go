@@ -42,14 +42,14 @@ type Kind string
 // Check kinds.
 const (
 	KindShadowTime   Kind = "shadow_time"  // sun direction from shadows/sightings vs the sun at the claimed moment
-	KindSunUp             = "sun_up"       // shadows need the sun above the horizon
-	KindGPSClock          = "gps_clock"    // camera clock vs the GPS receiver's UTC
-	KindOffsetTag         = "offset_tag"   // the camera's OffsetTime tag vs the place's zone
-	KindLight             = "light"        // exposure vs expected daylight (a hint)
-	KindShadowPlace       = "shadow_place" // position from the shadows vs the GPS tag
-	KindCameraClock       = "camera_clock" // this photo vs its camera's fitted clock
-	KindShotOrder         = "shot_order"   // capture order vs file numbering
-	KindMeasurements      = "measurements" // agreement between the objects measured in one photo
+	KindSunUp        Kind = "sun_up"       // shadows need the sun above the horizon
+	KindGPSClock     Kind = "gps_clock"    // camera clock vs the GPS receiver's UTC
+	KindOffsetTag    Kind = "offset_tag"   // the camera's OffsetTime tag vs the place's zone
+	KindLight        Kind = "light"        // exposure vs expected daylight (a hint)
+	KindShadowPlace  Kind = "shadow_place" // position from the shadows vs the GPS tag
+	KindCameraClock  Kind = "camera_clock" // this photo vs its camera's fitted clock
+	KindShotOrder    Kind = "shot_order"   // capture order vs file numbering
+	KindMeasurements Kind = "measurements" // agreement between the objects measured in one photo
 )
 
 // Check is one witness's testimony about one photo.

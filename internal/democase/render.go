@@ -53,10 +53,9 @@ func (a vec3) cross(b vec3) vec3 {
 
 // camera is a pose turned into the basis of the package doc.
 type camera struct {
-	p, f, r, u     vec3
-	focal, cx, cy  float64
-	width, height  int
-	horizonPitchDn float64
+	p, f, r, u    vec3
+	focal, cx, cy float64
+	width, height int
 }
 
 func newCamera(ps pose, w, h int) camera {

@@ -77,13 +77,19 @@ func header(b *bytes.Buffer, src string, notes []string) {
 
 // num checks that a cell parses as a number and returns it as printed (so the
 // generated source shows the published digits); "NaN" becomes math.NaN().
+// A published "-0.0" is written without its sign: a Go constant has no
+// negative zero, so the literal -0.0 would be +0 anyway and only mislead.
 func num(path string, row int, col, s string) (string, error) {
 	s = strings.TrimSpace(s)
 	if strings.EqualFold(s, "nan") {
 		return "math.NaN()", nil
 	}
-	if _, err := strconv.ParseFloat(s, 64); err != nil {
+	f, err := strconv.ParseFloat(s, 64)
+	if err != nil {
 		return "", fmt.Errorf("%s: data row %d, column %s: %w", path, row, col, err)
+	}
+	if f == 0 {
+		s = strings.TrimPrefix(s, "-")
 	}
 	return s, nil
 }
