@@ -2,8 +2,9 @@
 //
 //   - report.json ([WriteJSON]): the whole document as JSON (RFC 8259), two-space
 //     indent, fields in the order of the Go structs, photos sorted by path and
-//     cameras by id, map keys sorted. It departs from plain encoding/json in the
-//     following documented ways so that no fact is lost: a string (or string list) that is
+//     cameras by id, map keys sorted. It is written by encoding/json (see
+//     jsonCodec) and departs from its plain output in the following
+//     documented ways so that no fact is lost: a string (or string list) that is
 //     not valid UTF-8 is written with invalid bytes replaced by U+FFFD and a
 //     sibling member "<name>_raw_b64" carrying the exact bytes in standard
 //     base64 (RFC 4648 §4; for lists, an array of the same length with null for
@@ -12,7 +13,8 @@
 //     "NaN", "+Inf" or "-Inf"; and absent lists are written as [] rather than
 //     null. [ReadJSON] applies both siblings, so raw bytes survive a round trip.
 //     Invisible and direction-changing characters are written as \uXXXX
-//     escapes so that the file cannot display reordered text.
+//     escapes so that the file cannot display reordered text. [EncodeJSON]
+//     writes any other value by the same rules (`gnomon meta --json`).
 //   - report.csv ([WriteCSV]): one row per photo, RFC 4180 as implemented by
 //     encoding/csv (comma separator, quotes doubled), departing only in ending
 //     lines with "\n" rather than CRLF, because encoding/csv would otherwise turn a

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"reflect"
 )
 
 // Feature kinds in report.geojson.
@@ -13,11 +12,6 @@ const (
 	FeatureGPS       = "gps"        // the position the photo's GPS tags give
 	FeatureShadowFix = "shadow_fix" // the position the measured shadows give at the GPS time
 )
-
-type geoCollection struct {
-	Type     string       `json:"type"`
-	Features []geoFeature `json:"features"`
-}
 
 // geoFeature is an RFC 7946 §3.2 Feature. Geometry is nil (null) when the
 // position could not be drawn; SkippedReason then says why.
@@ -68,8 +62,7 @@ func WriteGeoJSON(w io.Writer, a *Audit) error {
 // features appended to "features" at once.
 type geoSink struct {
 	sinkState
-	fc   geoCollection // its Features are never read: they stream
-	doc  *jsonDoc
+	doc  *jsonStream
 	feat [2]geoFeature // the features of the current photo
 }
 
@@ -78,9 +71,9 @@ type geoSink struct {
 // out in pieces of about jsonFlushBytes. Nothing is written until the first
 // Photo or Close.
 func NewGeoJSONSink(w io.Writer) Sink {
-	s := &geoSink{sinkState: sinkState{format: "GeoJSON"}, fc: geoCollection{Type: "FeatureCollection"}}
-	s.doc = newJSONDoc(w, reflect.ValueOf(&s.fc).Elem(), "features")
-	return s
+	// The members of an RFC 7946 §3.3 FeatureCollection.
+	doc := &jsonStream{w: w, head: []jsonMember{{"type", "FeatureCollection"}}, stream: "features"}
+	return &geoSink{sinkState: sinkState{format: "GeoJSON"}, doc: doc}
 }
 
 func (s *geoSink) Photo(p *Photo) error {
@@ -89,7 +82,7 @@ func (s *geoSink) Photo(p *Photo) error {
 	}
 	fs := features(p, s.feat[:0])
 	for i := range fs {
-		if err := s.doc.elem(reflect.ValueOf(&fs[i]).Elem()); err != nil {
+		if err := s.doc.elem(&fs[i]); err != nil {
 			return s.fail(err)
 		}
 	}

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
@@ -13,6 +12,7 @@ import (
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/exifread"
+	"github.com/gnomon-forensics/gnomon/report"
 )
 
 // runMeta prints the evidence exifread finds in each photo: a readable block
@@ -42,9 +42,8 @@ func runMeta(e env, args []string) int {
 		recs = append(recs, exifread.ReadFile(p, exifread.Options{SkipHash: *noHash}))
 	}
 	if *asJSON {
-		enc := json.NewEncoder(e.stdout)
-		enc.SetIndent("", "  ")
-		if err := enc.Encode(recs); err != nil {
+		// The audit's writer: bytes that are not UTF-8 keep a "_raw_b64" sibling.
+		if err := report.EncodeJSON(e.stdout, recs); err != nil {
 			return fail(e.stderr, "meta", err)
 		}
 	} else {

@@ -1,11 +1,16 @@
 package main
 
 import (
+	"encoding/base64"
+	"encoding/binary"
 	"encoding/json"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
+	"github.com/gnomon-forensics/gnomon/internal/exifwrite/fixtures"
 )
 
 const metaFixtureDir = "../../exifread/testdata/fixtures"
@@ -132,5 +137,46 @@ func TestMetaWalk(t *testing.T) {
 	code, out, _ = captureRun("meta", "--json", "--no-hash", filepath.Join(outside, "tree"))
 	if err := json.Unmarshal([]byte(out), &recs); err != nil || code != exitOK || len(recs) != 2 {
 		t.Errorf("explicit symlinked folder: exit %d, %d records", code, len(recs))
+	}
+}
+
+// TestMetaJSONKeepsBytes: meta --json writes through the audit's JSON
+// writer, so a camera make in Latin-1 (not UTF-8) and a file name with such
+// a byte keep their exact bytes in a "_raw_b64" sibling instead of being
+// silently replaced by U+FFFD (issue 10, defect 7).
+func TestMetaJSONKeepsBytes(t *testing.T) {
+	dir := t.TempDir()
+	name := filepath.Join(dir, "caf\xe9.jpg")
+	payload, err := exifwrite.Photo{Make: "Caf\xe9 Optik", DateTimeOriginal: "2026:06:20 15:10:00"}.Payload(binary.BigEndian).Bytes()
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := exifwrite.JPEG(payload, fixtures.BaseJPEG, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(name, b, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, out, errOut := captureRun("meta", "--json", "--no-hash", name)
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var recs []map[string]any
+	if err := json.Unmarshal([]byte(out), &recs); err != nil || len(recs) != 1 {
+		t.Fatalf("not a JSON array of one record (%v):\n%s", err, out)
+	}
+	for _, tc := range []struct{ member, want, source string }{
+		// "Caf\xe9 Optik" in base64: coreutils `printf 'Caf\351 Optik' | base64`.
+		{"make_raw_b64", "Q2Fm6SBPcHRpaw==", "coreutils base64"},
+		{"make", "Caf\ufffd Optik", "encoding/json's replacement of an invalid byte (U+FFFD)"},
+		{"path_raw_b64", base64.StdEncoding.EncodeToString([]byte(name)), "RFC 4648 §4 (encoding/base64)"},
+	} {
+		if got := recs[0][tc.member]; got != tc.want {
+			t.Errorf("%s = %v, want %q (%s)", tc.member, got, tc.want, tc.source)
+		}
+	}
+	if w := recs[0]["warnings"]; w == nil {
+		t.Errorf("warnings = null, want [] (absent lists are written as [], as in report.json)")
 	}
 }
