@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"encoding/xml"
 	"errors"
-	"fmt"
 	"io"
 	"strconv"
 	"strings"
@@ -80,76 +79,6 @@ func parseXMP(b []byte) (xmpProps, error) {
 			text.Reset()
 		}
 	}
-}
-
-// parseXMPDate parses an XMP date (XMP Part 1 §8.2.1.1, a subset of ISO
-// 8601): YYYY-MM-DDThh:mm[:ss[.s+]][TZD]. EXIF-style "YYYY:MM:DD hh:mm:ss"
-// is accepted too. A date without a time is marked invalid: it names no moment.
-func parseXMPDate(raw, source string) *WallTime {
-	w := &WallTime{Raw: raw, Source: source}
-	s := strings.TrimSpace(raw)
-	if len(s) >= 10 && s[4] == ':' && s[7] == ':' {
-		s = s[:4] + "-" + s[5:7] + "-" + s[8:]
-	}
-	if len(s) >= 11 && s[10] == ' ' {
-		s = s[:10] + "T" + s[11:]
-	}
-	// zone designator
-	zone := ""
-	if i := strings.LastIndexAny(s, "Z+-"); i >= 10 {
-		zone, s = s[i:], s[:i]
-	}
-	frac := ""
-	if i := strings.IndexByte(s, '.'); i >= 0 {
-		frac, s = s[i+1:], s[:i]
-	}
-	var err error
-	atoi := func(x string) int {
-		v, e := strconv.Atoi(x)
-		if e != nil && err == nil {
-			err = fmt.Errorf("%s is not a number", quoted(x))
-		}
-		return v
-	}
-	switch {
-	case len(s) == 10 && s[4] == '-' && s[7] == '-':
-		w.Year, w.Month, w.Day = atoi(s[:4]), atoi(s[5:7]), atoi(s[8:10])
-		w.Invalid = "date without a time of day"
-		return w
-	case len(s) >= 16 && s[4] == '-' && s[7] == '-' && s[10] == 'T' && s[13] == ':':
-		w.Year, w.Month, w.Day = atoi(s[:4]), atoi(s[5:7]), atoi(s[8:10])
-		w.Hour, w.Minute = atoi(s[11:13]), atoi(s[14:16])
-		if len(s) == 19 && s[16] == ':' {
-			w.Second = atoi(s[17:19])
-		} else if len(s) != 16 {
-			err = errors.New("unexpected layout")
-		}
-	default:
-		w.Invalid = "not an XMP date"
-		return w
-	}
-	if err != nil {
-		w.Invalid = err.Error()
-		return w
-	}
-	if frac != "" {
-		w.SubSecRaw = frac
-		if ns, ok := subSecNanos(frac); ok {
-			w.Nanosecond = ns
-		}
-	}
-	if zone != "" {
-		w.OffsetRaw = zone
-		if off, ok := parseOffset(zone); ok {
-			w.OffsetSec = &off
-		}
-	}
-	if reason := checkCivil(w.Year, w.Month, w.Day, w.Hour, w.Minute, w.Second); reason != "" {
-		w.Invalid = reason
-		return w
-	}
-	w.Valid = true
-	return w
 }
 
 // parseXMPCoord parses an XMP GPSCoordinate "DDD,MM,SSk" or "DDD,MM.mmk"
