@@ -20,8 +20,15 @@ import (
 )
 
 // Base encodes one w×h picture as a JPEG at quality 92.
-func Base(w, h int) ([]byte, error) {
-	rng := rand.New(rand.NewPCG(1, 2))
+func Base(w, h int) ([]byte, error) { return NoiseJPEG(w, h, 92, 1) }
+
+// NoiseJPEG encodes a w×h gradient with sensor-like noise at the given
+// quality; seed picks the noise, so the same arguments give the same bytes.
+// Noise keeps the encoder from compressing the picture to nothing, so the
+// file is about the size a camera writes for that many pixels. It is the
+// one noise-picture maker of the test kit (package smallset uses it too).
+func NoiseJPEG(w, h, quality int, seed uint64) ([]byte, error) {
+	rng := rand.New(rand.NewPCG(seed, 2))
 	m := image.NewRGBA(image.Rect(0, 0, w, h))
 	for y := 0; y < h; y++ {
 		for x := 0; x < w; x++ {
@@ -30,7 +37,7 @@ func Base(w, h int) ([]byte, error) {
 		}
 	}
 	var buf bytes.Buffer
-	if err := jpeg.Encode(&buf, m, &jpeg.Options{Quality: 92}); err != nil {
+	if err := jpeg.Encode(&buf, m, &jpeg.Options{Quality: quality}); err != nil {
 		return nil, err
 	}
 	return buf.Bytes(), nil

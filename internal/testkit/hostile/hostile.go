@@ -32,7 +32,6 @@ import (
 	"encoding/binary"
 	"errors"
 	"fmt"
-	"hash/crc32"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
@@ -399,14 +398,6 @@ func (w *writer) tiffDamage() error {
 	return w.file("tiff/loop.tif", t, Item{Kind: "tiff-damage", Expect: ExpectRow})
 }
 
-// pngChunk returns one PNG chunk with its CRC (PNG spec 5.3).
-func pngChunk(typ string, data []byte) []byte {
-	b := binary.BigEndian.AppendUint32(nil, uint32(len(data)))
-	b = append(b, typ...)
-	b = append(b, data...)
-	return binary.BigEndian.AppendUint32(b, crc32.ChecksumIEEE(b[4:]))
-}
-
 // bombs declares huge image sizes in headers whose metadata is readable, so
 // that the thumbnail writer is reached and must refuse before decoding
 // (report.MaxDecodePixels).
@@ -420,7 +411,7 @@ func (w *writer) bombs() error {
 	ihdr := append([]byte(nil), p[16:16+13]...)
 	binary.BigEndian.PutUint32(ihdr, 100000)
 	binary.BigEndian.PutUint32(ihdr[4:], 100000)
-	p = append(append(append([]byte(nil), p[:8]...), pngChunk("IHDR", ihdr)...), p[8+25:]...)
+	p = append(append(append([]byte(nil), p[:8]...), exifwrite.PNGChunk("IHDR", ihdr)...), p[8+25:]...)
 	pb, err := exifwrite.PNG(payload, p)
 	if err != nil {
 		return err

@@ -1,5 +1,5 @@
-// Package smallset writes a large folder of small JPEG photos (about 2 to
-// 20 KB each) with camera-like EXIF, for the scale benchmark
+// Package smallset writes a large folder of small JPEG photos (about 1 to
+// 6 KB each) with camera-like EXIF, for the scale benchmark
 // (testdata/bench_scale.sh) and the interrupt test of cmd/gnomon. The
 // pictures are invented noise; the metadata is written by exifwrite.
 //
@@ -12,33 +12,30 @@
 package smallset
 
 import (
-	"bytes"
 	"encoding/binary"
 	"fmt"
-	"image"
-	"image/color"
-	"image/jpeg"
-	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
+	"github.com/gnomon-forensics/gnomon/internal/testkit/benchset"
 )
 
 // Options shape the batch.
 type Options struct {
-	// Big is how many extra multi-megabyte photos to add (BigBase, about
-	// 3 MB each), so that hashing takes measurable time.
+	// Big is how many extra large photos to add (BigBase, about 1.3 MB
+	// each), so that hashing takes measurable time.
 	Big int
 }
 
-// Bases returns k small noise JPEGs of growing size (2 to 20 KB).
+// Bases returns k small noise JPEGs of growing size (about 1 to 6 KB,
+// measured for k = 8).
 func Bases(k int) ([][]byte, error) {
 	var out [][]byte
 	for i := 0; i < k; i++ {
 		w := 40 + i*100/max(k-1, 1) // 40..140 pixels wide
-		b, err := noiseJPEG(w, w*3/4, 85, uint64(i))
+		b, err := benchset.NoiseJPEG(w, w*3/4, 85, uint64(i))
 		if err != nil {
 			return nil, err
 		}
@@ -47,24 +44,8 @@ func Bases(k int) ([][]byte, error) {
 	return out, nil
 }
 
-// BigBase is one picture of about 3 MB (1800×1200 noise at quality 95).
-func BigBase() ([]byte, error) { return noiseJPEG(1800, 1200, 95, 99) }
-
-func noiseJPEG(w, h, quality int, seed uint64) ([]byte, error) {
-	rng := rand.New(rand.NewPCG(seed, 7))
-	m := image.NewRGBA(image.Rect(0, 0, w, h))
-	for y := 0; y < h; y++ {
-		for x := 0; x < w; x++ {
-			n := func() uint8 { return uint8(rng.IntN(64)) }
-			m.SetRGBA(x, y, color.RGBA{uint8(x*150/w) + n(), uint8(y*150/h) + n(), 110 + n(), 255})
-		}
-	}
-	var buf bytes.Buffer
-	if err := jpeg.Encode(&buf, m, &jpeg.Options{Quality: quality}); err != nil {
-		return nil, err
-	}
-	return buf.Bytes(), nil
-}
+// BigBase is one picture of about 1.3 MB (1800×1200 noise at quality 95).
+func BigBase() ([]byte, error) { return benchset.NoiseJPEG(1800, 1200, 95, 99) }
 
 type cam struct {
 	letter, serial string
