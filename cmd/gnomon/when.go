@@ -9,6 +9,7 @@ import (
 	"strings"
 	"time"
 
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"github.com/gnomon-forensics/gnomon/solarcheck/invert"
 	"github.com/gnomon-forensics/gnomon/solarcheck/shadow"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
@@ -179,7 +180,7 @@ func runWhen(e env, args []string) int {
 			if math.IsNaN(*az) || math.IsInf(*az, 0) {
 				return usageErr(fs, "--azimuth %g is not an angle", *az)
 			}
-			m.HasAzimuth, m.AzimuthDeg, m.AzimuthSDDeg = true, math.Mod(math.Mod(*az, 360)+360, 360), *azSD
+			m.HasAzimuth, m.AzimuthDeg, m.AzimuthSDDeg = true, angle.Norm360(*az), *azSD
 		}
 		if set["altitude"] {
 			if !(*alt >= -90 && *alt <= 90) {
