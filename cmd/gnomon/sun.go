@@ -12,6 +12,7 @@ import (
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
+	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
 )
 
 const sunSynopsis = "gnomon sun --time T --lat D --lon D [--elevation M] [--pressure HPA] [--temperature C] [--delta-t S] [--calendar auto|gregorian|julian] [--zone IANA] [--json]"
@@ -46,13 +47,24 @@ var wallTimeRE = regexp.MustCompile(`^([+-]?\d{4,6})-(\d{2})-(\d{2})[Tt ](\d{2})
 // answers it with the usage (exit 2).
 var errSunInput = errors.New("bad input")
 
+// reading says how a wall time without offset was read in --zone where it
+// was skipped or repeated: a sentence naming the reading used, and the
+// other instants (RFC 3339 UTC). Zero for an ordinary wall time.
+type reading struct {
+	note   string
+	others []string
+}
+
 // parseSunTime reads s as a wall time in calendar cal and returns the
-// instant, the zone used for the day's events, and whether s carried an
-// offset. With an offset the offset wins over --zone for the instant.
-func parseSunTime(s, zone string, cal spa.Calendar) (time.Time, *time.Location, error) {
+// instant, the zone used for the day's events, and, for a wall time that
+// zoneName skipped or repeated, a sentence saying which reading was used
+// and what the others are. With an offset the offset wins over --zone for
+// the instant. Zones come from db, the embedded tz database, never from the
+// host.
+func parseSunTime(s, zoneName string, cal spa.Calendar, db *zone.DB) (time.Time, *time.Location, reading, error) {
 	m := wallTimeRE.FindStringSubmatch(strings.TrimSpace(s))
 	if m == nil {
-		return time.Time{}, nil, fmt.Errorf("%w: --time %q is not YYYY-MM-DDTHH:MM:SS with an optional offset (RFC 3339)", errSunInput, s)
+		return time.Time{}, nil, reading{}, fmt.Errorf("%w: --time %q is not YYYY-MM-DDTHH:MM:SS with an optional offset (RFC 3339)", errSunInput, s)
 	}
 	atoi := func(x string) int { n, _ := strconv.Atoi(strings.TrimPrefix(x, "+")); return n }
 	d := spa.CalendarDate{Year: atoi(m[1]), Month: atoi(m[2]), Day: atoi(m[3]),
@@ -62,10 +74,10 @@ func parseSunTime(s, zone string, cal spa.Calendar) (time.Time, *time.Location, 
 		d.Nanosecond = atoi(frac)
 	}
 	var loc *time.Location
-	if zone != "" {
-		l, err := time.LoadLocation(zone)
+	if zoneName != "" {
+		l, err := db.Load(zoneName)
 		if err != nil {
-			return time.Time{}, nil, fmt.Errorf("%w: unknown --zone %q", errSunInput, zone)
+			return time.Time{}, nil, reading{}, fmt.Errorf("%w: unknown --zone %q", errSunInput, zoneName)
 		}
 		loc = l
 	}
@@ -80,59 +92,88 @@ func parseSunTime(s, zone string, cal spa.Calendar) (time.Time, *time.Location, 
 		}
 		h, mm := atoi(off[1:3]), atoi(off[4:6])
 		if h > 23 || mm > 59 {
-			return time.Time{}, nil, fmt.Errorf("%w: --time %q has a bad offset", errSunInput, s)
+			return time.Time{}, nil, reading{}, fmt.Errorf("%w: --time %q has a bad offset", errSunInput, s)
 		}
 		inst = time.FixedZone(off, sign*(h*3600+mm*60))
 	case loc == nil:
-		return time.Time{}, nil, fmt.Errorf("%w: --time %q has no UTC offset: add one (Z, +02:00) or give --zone", errSunInput, s)
+		return time.Time{}, nil, reading{}, fmt.Errorf("%w: --time %q has no UTC offset: add one (Z, +02:00) or give --zone", errSunInput, s)
 	}
 	t, err := d.In(inst)
 	if err != nil {
-		return time.Time{}, nil, fmt.Errorf("%w: --time %q: %v", errSunInput, s, err)
+		return time.Time{}, nil, reading{}, fmt.Errorf("%w: --time %q: %v", errSunInput, s, err)
+	}
+	var r reading
+	if inst == loc {
+		t, r.note, r.others = resolveInZone(t, d, loc)
 	}
 	if loc == nil {
 		loc = inst
 	}
-	return t, loc, nil
+	return t, loc, r, nil
+}
+
+// resolveInZone reads the wall time d in loc with the tz database's own
+// transitions (time.Date, which made t, picks one instant silently where
+// the wall time was skipped or repeated). Of several readings the earlier
+// instant is used (for a skipped wall time, the same one time.Date gives),
+// and the note names it and the others. Years outside 1..9999 are left as
+// they are: the tz database has no changes there.
+func resolveInZone(t time.Time, d spa.CalendarDate, loc *time.Location) (time.Time, string, []string) {
+	g, err := d.In(time.UTC) // the wall fields in the proleptic Gregorian calendar
+	if err != nil || g.Year() < 1 || g.Year() > 9999 {
+		return t, "", nil
+	}
+	w := zone.Wall{Year: g.Year(), Month: g.Month(), Day: g.Day(), Hour: g.Hour(), Minute: g.Minute(), Second: g.Second(), Nanosecond: g.Nanosecond()}
+	res, err := zone.Resolve(w, loc)
+	if err != nil || res.Kind == zone.Normal {
+		return t, "", nil
+	}
+	var others []string
+	for _, c := range res.Candidates[1:] {
+		others = append(others, c.UTC.Format(time.RFC3339Nano))
+	}
+	return res.Candidates[0].UTC, res.Describe(w, 0), others
 }
 
 // sunJSON is the --json output. Times are RFC 3339 UTC; a nil time means
 // the event did not happen that day.
 type sunJSON struct {
-	Time              string  `json:"time"`
-	TimeLocal         string  `json:"time_local"`
-	CalendarDate      string  `json:"calendar_date"`
-	Lat               float64 `json:"lat"`
-	Lon               float64 `json:"lon"`
-	ElevationM        float64 `json:"elevation"`
-	PressureHPa       float64 `json:"pressure"`
-	TemperatureC      float64 `json:"temperature"`
-	DeltaT            float64 `json:"delta_t"`
-	DeltaTSource      string  `json:"delta_t_source"`
-	Azimuth           float64 `json:"azimuth"`
-	Altitude          float64 `json:"altitude"`
-	AltitudeAirless   float64 `json:"altitude_airless"`
-	Refraction        float64 `json:"refraction"`
-	Zenith            float64 `json:"zenith"`
-	Declination       float64 `json:"declination"`
-	RightAscension    float64 `json:"right_ascension"`
-	HourAngle         float64 `json:"hour_angle"`
-	EarthSunAU        float64 `json:"earth_sun_distance_au"`
-	EquationOfTimeMin float64 `json:"equation_of_time_min"`
-	ApparentSolarTime string  `json:"apparent_solar_time"`
-	SubsolarLat       float64 `json:"subsolar_lat"`
-	SubsolarLon       float64 `json:"subsolar_lon"`
-	Day               string  `json:"day"`
-	SolarNoon         string  `json:"solar_noon"`
-	SolarNoonAltitude float64 `json:"solar_noon_altitude"`
-	Sunrise           *string `json:"sunrise"`
-	Sunset            *string `json:"sunset"`
-	CivilDawn         *string `json:"civil_dawn"`
-	CivilDusk         *string `json:"civil_dusk"`
-	NauticalDawn      *string `json:"nautical_dawn"`
-	NauticalDusk      *string `json:"nautical_dusk"`
-	AstronomicalDawn  *string `json:"astronomical_dawn"`
-	AstronomicalDusk  *string `json:"astronomical_dusk"`
+	Time              string   `json:"time"`
+	TimeReading       string   `json:"time_reading,omitempty"`
+	OtherTimes        []string `json:"other_times,omitempty"`
+	TimeLocal         string   `json:"time_local"`
+	CalendarDate      string   `json:"calendar_date"`
+	Lat               float64  `json:"lat"`
+	Lon               float64  `json:"lon"`
+	ElevationM        float64  `json:"elevation"`
+	PressureHPa       float64  `json:"pressure"`
+	TemperatureC      float64  `json:"temperature"`
+	DeltaT            float64  `json:"delta_t"`
+	DeltaTSource      string   `json:"delta_t_source"`
+	Azimuth           float64  `json:"azimuth"`
+	Altitude          float64  `json:"altitude"`
+	AltitudeAirless   float64  `json:"altitude_airless"`
+	Refraction        float64  `json:"refraction"`
+	Zenith            float64  `json:"zenith"`
+	Declination       float64  `json:"declination"`
+	RightAscension    float64  `json:"right_ascension"`
+	HourAngle         float64  `json:"hour_angle"`
+	EarthSunAU        float64  `json:"earth_sun_distance_au"`
+	EquationOfTimeMin float64  `json:"equation_of_time_min"`
+	ApparentSolarTime string   `json:"apparent_solar_time"`
+	SubsolarLat       float64  `json:"subsolar_lat"`
+	SubsolarLon       float64  `json:"subsolar_lon"`
+	Day               string   `json:"day"`
+	SolarNoon         string   `json:"solar_noon"`
+	SolarNoonAltitude float64  `json:"solar_noon_altitude"`
+	Sunrise           *string  `json:"sunrise"`
+	Sunset            *string  `json:"sunset"`
+	CivilDawn         *string  `json:"civil_dawn"`
+	CivilDusk         *string  `json:"civil_dusk"`
+	NauticalDawn      *string  `json:"nautical_dawn"`
+	NauticalDusk      *string  `json:"nautical_dusk"`
+	AstronomicalDawn  *string  `json:"astronomical_dawn"`
+	AstronomicalDusk  *string  `json:"astronomical_dusk"`
 }
 
 func runSun(e env, args []string) int {
@@ -174,7 +215,7 @@ func runSun(e env, args []string) int {
 	if err != nil {
 		return usageErr(fs, "--calendar: %v", err)
 	}
-	t, loc, err := parseSunTime(f.time, f.zone, cal)
+	t, loc, rd, err := parseSunTime(f.time, f.zone, cal, zone.NewDB())
 	if err != nil {
 		return usageErr(fs, "%v", strings.TrimPrefix(err.Error(), errSunInput.Error()+": "))
 	}
@@ -197,7 +238,7 @@ func runSun(e env, args []string) int {
 	d := spa.DayAt(dayStart, o, dt)
 
 	out := sunJSON{
-		Time: t.UTC().Format(time.RFC3339Nano), TimeLocal: lt.Format(time.RFC3339Nano),
+		Time: t.UTC().Format(time.RFC3339Nano), TimeReading: rd.note, OtherTimes: rd.others, TimeLocal: lt.Format(time.RFC3339Nano),
 		CalendarDate: spa.CalendarDateOf(lt, cal).String(),
 		Lat:          f.lat, Lon: f.lon, ElevationM: f.elev, PressureHPa: f.press, TemperatureC: f.temp,
 		DeltaT: round(dt, 3), DeltaTSource: dtSource,
@@ -245,6 +286,9 @@ func writeSunTable(w io.Writer, j sunJSON, p spa.Position, d spa.Day, loc *time.
 	}
 	row("time (UTC, read as UT1)", "%s", j.Time)
 	row("time (local)", "%s  (as read: %s)", j.TimeLocal, j.CalendarDate)
+	if j.TimeReading != "" {
+		row("note", "%s", j.TimeReading)
+	}
 	row("place", "%.6f° lat, %.6f° lon, %.1f m", j.Lat, j.Lon, j.ElevationM)
 	row("atmosphere (refraction)", "%.2f hPa, %.1f °C", j.PressureHPa, j.TemperatureC)
 	row("ΔT (TT − UT1)", "%.3f s (%s)", j.DeltaT, j.DeltaTSource)

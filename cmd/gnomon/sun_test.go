@@ -5,7 +5,6 @@ import (
 	"math"
 	"strings"
 	"testing"
-	_ "time/tzdata" // zones for --zone cases, whatever the machine has installed
 )
 
 // spaExampleArgs is the SPA report Table A5.1 example.

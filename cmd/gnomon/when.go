@@ -13,6 +13,7 @@ import (
 	"github.com/gnomon-forensics/gnomon/solarcheck/invert"
 	"github.com/gnomon-forensics/gnomon/solarcheck/shadow"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
+	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
 )
 
 const whenSynopsis = "gnomon when --lat D --lon D (--date YYYY-MM-DD | --from YYYY-MM-DD --to YYYY-MM-DD) (--azimuth A [--altitude H] | --altitude H | --shadow-bearing B --height H --shadow-length L [--slope S --slope-toward B]) [--azimuth-sd S] [--altitude-sd S] [--bearing-sd S] [--length-sd-pct P] [--zone IANA] [--json]"
@@ -51,6 +52,39 @@ type whenMatchJSON struct {
 
 type whenJSON struct {
 	Matches []whenMatchJSON `json:"matches"`
+	// Notes say where a midnight bounding the days was skipped or repeated
+	// in --zone, and which instant was taken.
+	Notes []string `json:"notes,omitempty"`
+}
+
+// dayBounds returns the first and last instants (to the second) at which
+// the clocks of loc showed the days day0..day1. Where a bounding midnight
+// was skipped or repeated (zones that change at midnight), the day runs
+// from the first instant that showed its date, and a note says so.
+func dayBounds(day0, day1 time.Time, loc *time.Location) (start, end time.Time, notes []string, err error) {
+	note := func(what string, y int, m time.Month, d int, res zone.Resolution, at time.Time) {
+		switch res.Kind {
+		case zone.Skipped:
+			notes = append(notes, fmt.Sprintf("%s: midnight of %04d-%02d-%02d never came in %s (the clocks went forward at it); the day is taken from the change, %s.",
+				what, y, int(m), d, res.Zone, at.UTC().Format(time.RFC3339)))
+		case zone.Repeated:
+			notes = append(notes, fmt.Sprintf("%s: midnight of %04d-%02d-%02d came twice in %s (the clocks went back); the day is taken from the first, %s.",
+				what, y, int(m), d, res.Zone, at.UTC().Format(time.RFC3339)))
+		}
+	}
+	y, m, d := day0.Date()
+	start, res, err := zone.DayStart(y, m, d, loc)
+	if err != nil {
+		return time.Time{}, time.Time{}, nil, fmt.Errorf("start of %s: %w", day0.Format(time.DateOnly), err)
+	}
+	note("start", y, m, d, res, start)
+	y, m, d = day1.AddDate(0, 0, 1).Date()
+	next, res, err := zone.DayStart(y, m, d, loc)
+	if err != nil {
+		return time.Time{}, time.Time{}, nil, fmt.Errorf("end of %s: %w", day1.Format(time.DateOnly), err)
+	}
+	note("end", y, m, d, res, next)
+	return start, next.Add(-time.Second), notes, nil
 }
 
 func runWhen(e env, args []string) int {
@@ -71,7 +105,7 @@ func runWhen(e env, args []string) int {
 	altSD := fs.Float64("altitude-sd", 1, "1-sigma error of --altitude, degrees")
 	bearingSD := fs.Float64("bearing-sd", 2, "1-sigma error of --shadow-bearing, degrees")
 	lenSD := fs.Float64("length-sd-pct", 5, "1-sigma error of --shadow-length, per cent of the length")
-	zone := fs.String("zone", "", "IANA time zone of the dates (default: UTC dates)")
+	zoneName := fs.String("zone", "", "IANA time zone of the dates (default: UTC dates)")
 	asJSON := fs.Bool("json", false, "print one JSON object")
 	if code, done := parseFlags(fs, args); done {
 		return code
@@ -100,10 +134,10 @@ func runWhen(e env, args []string) int {
 
 	// The dates.
 	loc := time.UTC
-	if *zone != "" {
-		l, err := time.LoadLocation(*zone)
+	if *zoneName != "" {
+		l, err := zone.NewDB().Load(*zoneName) // the embedded tz database, never the host's
 		if err != nil {
-			return usageErr(fs, "unknown --zone %q", *zone)
+			return usageErr(fs, "unknown --zone %q", *zoneName)
 		}
 		loc = l
 	}
@@ -120,11 +154,11 @@ func runWhen(e env, args []string) int {
 	default:
 		return usageErr(fs, "a date is required: --date, or --from and --to")
 	}
-	day0, err := time.ParseInLocation("2006-01-02", d0, loc)
+	day0, err := time.Parse(time.DateOnly, d0) // calendar fields only: midnight in loc may not exist
 	if err != nil {
 		return usageErr(fs, "date %q is not a calendar date YYYY-MM-DD", d0)
 	}
-	day1, err := time.ParseInLocation("2006-01-02", d1, loc)
+	day1, err := time.Parse(time.DateOnly, d1)
 	if err != nil {
 		return usageErr(fs, "date %q is not a calendar date YYYY-MM-DD", d1)
 	}
@@ -134,7 +168,10 @@ func runWhen(e env, args []string) int {
 	if y := day0.Year(); y < -2000 || day1.Year() > 6000 {
 		return usageErr(fs, "dates outside the years -2000..6000 that SPA covers")
 	}
-	start, end := invert.DayRange(day0.Year(), day0.Month(), day0.Day(), day1.Year(), day1.Month(), day1.Day(), loc)
+	start, end, dayNotes, err := dayBounds(day0, day1, loc)
+	if err != nil {
+		return fail(e.stderr, "when", err)
+	}
 	if end.Sub(start) > maxWhenDays*24*time.Hour {
 		return usageErr(fs, "range %s to %s is longer than %d days (about three years)", d0, d1, maxWhenDays)
 	}
@@ -205,7 +242,7 @@ func runWhen(e env, args []string) int {
 	if err != nil {
 		return fail(e.stderr, "when", err)
 	}
-	out := whenJSON{Matches: []whenMatchJSON{}}
+	out := whenJSON{Matches: []whenMatchJSON{}, Notes: dayNotes}
 	for _, w := range ws {
 		out.Matches = append(out.Matches, whenMatchJSON{
 			Best: w.Best.UTC().Format(time.RFC3339), Earliest: w.Earliest.UTC().Format(time.RFC3339),
@@ -222,7 +259,7 @@ func runWhen(e env, args []string) int {
 		}
 		return exitOK
 	}
-	if err := writeWhenTable(e.stdout, m, from0, *lat, *lon, d0, d1, loc, ws); err != nil {
+	if err := writeWhenTable(e.stdout, m, from0, *lat, *lon, d0, d1, loc, dayNotes, ws); err != nil {
 		return fail(e.stderr, "when", fmt.Errorf("write output: %w", err))
 	}
 	return exitOK
@@ -230,7 +267,7 @@ func runWhen(e env, args []string) int {
 
 // writeWhenTable prints the readable form: what was measured, then one
 // aligned row per window.
-func writeWhenTable(w io.Writer, m invert.Measurement, source string, lat, lon float64, d0, d1 string, loc *time.Location, ws []invert.Window) error {
+func writeWhenTable(w io.Writer, m invert.Measurement, source string, lat, lon float64, d0, d1 string, loc *time.Location, notes []string, ws []invert.Window) error {
 	var b strings.Builder
 	var parts []string
 	if m.HasAzimuth {
@@ -245,6 +282,9 @@ func writeWhenTable(w io.Writer, m invert.Measurement, source string, lat, lon f
 	fmt.Fprintf(&b, "%-10s %s (%s, 1-sigma)\n", "sun", strings.Join(parts, ", "), source)
 	fmt.Fprintf(&b, "%-10s %.5f° lat, %.5f° lon\n", "place", lat, lon)
 	fmt.Fprintf(&b, "%-10s %s to %s (%s)\n", "days", d0, d1, loc)
+	for _, n := range notes {
+		fmt.Fprintf(&b, "%-10s %s\n", "note", n)
+	}
 	fmt.Fprintf(&b, "%-10s misfit χ² below %.3f (%d dof, 95 %%); sun above the horizon\n", "match", m.Threshold(), m.Dof())
 	if len(ws) == 0 {
 		b.WriteString("\nno time in the range fits the measurement\n")

@@ -8,6 +8,7 @@ import (
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
+	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
 )
 
 // srcSPART names the witness of CLI round trips: the forward sun comes from
@@ -129,7 +130,10 @@ func TestWhenJSONRoundTrip(t *testing.T) {
 		day := tc.truth.UTC().Format("2006-01-02")
 		args := []string{"when", "--lat", f6(tc.lat), "--lon", f6(tc.lon), "--date", day, "--json"}
 		if tc.zone != "" {
-			loc, _ := time.LoadLocation(tc.zone)
+			loc, err := zone.NewDB().Load(tc.zone)
+			if err != nil {
+				t.Fatal(err)
+			}
 			args = append(args, "--zone", tc.zone)
 			args[6] = tc.truth.In(loc).Format("2006-01-02")
 		}

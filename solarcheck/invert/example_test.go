@@ -18,7 +18,8 @@ func ExampleWhen() {
 		fmt.Println(err)
 		return
 	}
-	from, to := invert.DayRange(2025, time.July, 14, 2025, time.July, 14, time.UTC)
+	from := time.Date(2025, time.July, 14, 0, 0, 0, 0, time.UTC)
+	to := from.Add(24*time.Hour - time.Second)
 	ws, err := invert.When(invert.Query{
 		Observer:    spa.NewObserver(43.77, 11.25, 50),
 		From:        from,
@@ -64,15 +65,4 @@ func ExampleFromShadow() {
 	fmt.Printf("azimuth %.1f ± %.1f°, altitude %.2f ± %.2f°, %d dof, threshold %.3f\n",
 		m.AzimuthDeg, m.AzimuthSDDeg, m.AltitudeDeg, m.AltitudeSDDeg, m.Dof(), m.Threshold())
 	// Output: azimuth 180.0 ± 2.0°, altitude 45.00 ± 1.43°, 2 dof, threshold 5.991
-}
-
-func ExampleDayRange() {
-	loc, err := time.LoadLocation("America/Denver")
-	if err != nil {
-		fmt.Println(err)
-		return
-	}
-	from, to := invert.DayRange(2025, time.March, 9, 2025, time.March, 9, loc)
-	fmt.Println(from.UTC().Format(time.RFC3339), to.UTC().Format(time.RFC3339), to.Sub(from).Round(time.Hour))
-	// Output: 2025-03-09T07:00:00Z 2025-03-10T05:59:59Z 23h0m0s
 }

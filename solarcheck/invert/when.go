@@ -147,7 +147,8 @@ type Query struct {
 	// given (zero = no refraction); spa.NewObserver sets the standard one.
 	Observer spa.Observer
 	// From and To bound the search, [From, To]. Callers turn calendar
-	// dates in a zone into instants (see DayRange).
+	// dates in a zone into instants (zone.DayStart, which knows the zones
+	// whose midnight is skipped or repeated).
 	From, To    time.Time
 	Measurement Measurement
 	// DeltaT gives ΔT in seconds for an instant; nil means spa.DeltaT.
@@ -168,15 +169,6 @@ type Window struct {
 	// searched range: the sun matched before From or after To too.
 	StartsBefore bool
 	EndsAfter    bool
-}
-
-// DayRange returns the instants bounding the calendar days from..to
-// (inclusive) in loc: from's midnight to the last instant before the
-// midnight after to. Daylight-saving days are 23 or 25 hours long.
-func DayRange(fromY int, fromM time.Month, fromD int, toY int, toM time.Month, toD int, loc *time.Location) (time.Time, time.Time) {
-	start := time.Date(fromY, fromM, fromD, 0, 0, 0, 0, loc)
-	end := time.Date(toY, toM, toD+1, 0, 0, 0, 0, loc).Add(-time.Second)
-	return start, end
 }
 
 // searcher holds one When search.

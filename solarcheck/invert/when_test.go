@@ -22,7 +22,8 @@ func sunAt(lat, lon float64, t time.Time) spa.Position {
 
 func utcDay(t time.Time) (time.Time, time.Time) {
 	y, m, d := t.UTC().Date()
-	return DayRange(y, m, d, y, m, d, time.UTC)
+	start := time.Date(y, m, d, 0, 0, 0, 0, time.UTC)
+	return start, start.Add(24*time.Hour - time.Second)
 }
 
 type whenCase struct {

@@ -67,3 +67,20 @@ func ExampleDB_Load() {
 	fmt.Println(db.Version() != "", off) // −4:30 from 2007 to 2016
 	// Output: true -16200
 }
+
+// Cuba puts its clocks forward at midnight (tz database, northamerica, Rule
+// Cuba 2012 max Mar Sun>=8 0:00s): 2025-03-09 had no midnight in Havana and
+// began at the change, 05:00 UTC. In Denver the same date began at an
+// ordinary midnight, 07:00 UTC, and was 23 hours long.
+func ExampleDayStart() {
+	db := zone.NewDB()
+	for _, name := range []string{"America/Havana", "America/Denver"} {
+		loc, _ := db.Load(name)
+		start, res, _ := zone.DayStart(2025, time.March, 9, loc)
+		next, _, _ := zone.DayStart(2025, time.March, 10, loc)
+		fmt.Println(name, res.Kind, start.Format(time.RFC3339), next.Sub(start))
+	}
+	// Output:
+	// America/Havana skipped 2025-03-09T05:00:00Z 23h0m0s
+	// America/Denver normal 2025-03-09T07:00:00Z 23h0m0s
+}

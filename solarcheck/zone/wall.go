@@ -3,6 +3,7 @@ package zone
 import (
 	"fmt"
 	"sort"
+	"strings"
 	"time"
 )
 
@@ -240,4 +241,63 @@ func formatOffset(offsetSec int) string {
 		return fmt.Sprintf("%s%02d:%02d:%02d", sign, h, m, s)
 	}
 	return fmt.Sprintf("%s%02d:%02d", sign, h, m)
+}
+
+// DayStart returns the first instant at which the clocks of loc showed the
+// calendar date y-m-d (normalised, so day 32 is the next month's first), and
+// how its midnight resolved: Normal; Repeated where midnight came twice (the
+// first is returned); Skipped where a change at midnight jumped over it (as
+// the tz database's America/Havana and Asia/Beirut rules do), when the day
+// began at the change itself. time.Date would pick one silently. Years
+// before 1 have no offset changes in the tz database and are read directly.
+func DayStart(y int, m time.Month, d int, loc *time.Location) (time.Time, Resolution, error) {
+	n := time.Date(y, m, d, 12, 0, 0, 0, time.UTC)
+	if n.Year() < 1 || n.Year() > 9999 {
+		t := time.Date(n.Year(), n.Month(), n.Day(), 0, 0, 0, 0, loc)
+		return t, Resolution{Zone: loc.String(), Kind: Normal}, nil
+	}
+	res, err := Resolve(Wall{Year: n.Year(), Month: n.Month(), Day: n.Day()}, loc)
+	if err != nil {
+		return time.Time{}, Resolution{}, err
+	}
+	if res.Kind == Skipped {
+		return res.Transition, res, nil
+	}
+	return res.Candidates[0].UTC, res, nil
+}
+
+// Describe says in plain words how w resolved in r and which of r's
+// candidates the caller used (index into r.Candidates), naming the other
+// readings, so that no command shifts a skipped or repeated wall time
+// silently. It is "" for a Normal resolution.
+func (r Resolution) Describe(w Wall, used int) string {
+	if r.Kind == Normal || used < 0 || used >= len(r.Candidates) {
+		return ""
+	}
+	w.HasOffset = false
+	wall := strings.Replace(w.String(), "T", " ", 1)
+	change := r.Transition.UTC().Format("2006-01-02 15:04 UTC")
+	var b strings.Builder
+	switch r.Kind {
+	case Repeated:
+		fmt.Fprintf(&b, "%s came twice in %s (the clocks went back at %s): read as %s", wall, r.Zone, change, r.Candidates[used].label())
+	case Skipped:
+		fmt.Fprintf(&b, "%s never came in %s (the clocks went forward at %s), so a clock on the legal time there never showed it: read as %s",
+			wall, r.Zone, change, r.Candidates[used].label())
+	}
+	for i, c := range r.Candidates {
+		if i != used {
+			fmt.Fprintf(&b, "; the other reading is %s", c.label())
+		}
+	}
+	return b.String() + "."
+}
+
+// label names a candidate as "UTC−05:00 (EST), 2025-11-02 06:30:00 UTC".
+func (c Candidate) label() string {
+	s := "UTC" + strings.Replace(formatOffset(c.OffsetSec), "-", "−", 1)
+	if c.Abbrev != "" && c.Abbrev[0] != '+' && c.Abbrev[0] != '-' {
+		s += " (" + c.Abbrev + ")"
+	}
+	return s + ", " + c.UTC.UTC().Format("2006-01-02 15:04:05 UTC")
 }
