@@ -2,6 +2,7 @@ package report
 
 import (
 	"fmt"
+	"github.com/gnomon-forensics/gnomon/internal/figure"
 	"math"
 	"slices"
 	"strings"
@@ -298,7 +299,7 @@ func buildClock(c Camera) cameraView {
 	for _, q := range pts {
 		ch.Points = append(ch.Points, clockPoint{
 			X: f1(xOf(q.t)), Y: f1(yOf(q.off)), YLow: f1(yOf(q.lo)), YHigh: f1(yOf(q.hi)), Outlier: q.outlier,
-			Title: fmt.Sprintf("%s — %s, offset %s (%s to %s)", Visible(q.path), Visible(q.claimed), fmtOffset(q.off), fmtOffset(q.lo), fmtOffset(q.hi)),
+			Title: pointTitle(q.path, q.claimed, q.off, q.lo, q.hi),
 		})
 	}
 	return cameraView{C: c, Chart: ch}
@@ -315,4 +316,11 @@ func niceStep(span float64) float64 {
 		}
 	}
 	return math.Pow(10, math.Ceil(math.Log10(span/clockMaxTicks)))
+}
+
+// pointTitle is a clock chart point's tooltip: the photo and its offset
+// with interval, rounded as its card rounds them (figure.Spans).
+func pointTitle(path, claimed string, off, lo, hi float64) string {
+	sec, low, high := figure.Spans(off, lo, hi)
+	return fmt.Sprintf("%s — %s, offset %s (%s to %s)", Visible(path), Visible(claimed), sec, low, high)
 }

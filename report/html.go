@@ -4,6 +4,7 @@ import (
 	_ "embed"
 	"errors"
 	"fmt"
+	"github.com/gnomon-forensics/gnomon/internal/figure"
 	"html/template"
 	"io"
 	"iter"
@@ -25,8 +26,10 @@ var pageTemplate = template.Must(template.New("page").Funcs(template.FuncMap{
 	"vis":   Visible,
 	"num":   fmtNum,
 	"opt":   fmtOpt,
-	"dur":   fmtOffset,
 	"optd":  fmtOptOffset,
+	"offs":  offsetSpans,
+	"fig":   fmtFigure,
+	"unc":   fmtUncertainty,
 	"style": verdictStyleOf,
 	"place": fmtPlace,
 	"sub":   func(a, b int) int { return a - b },
@@ -385,27 +388,44 @@ func fmtOpt(x *float64, d int) string {
 	return fmtNum(*x, d)
 }
 
-// fmtOffset writes seconds as a signed, readable span: "+2 h 05 min 09 s".
-func fmtOffset(sec float64) string {
-	if n := nonFiniteName(sec); n != "" {
-		return n
+// fmtOffset writes seconds as a signed, readable span to the second:
+// "+2 h 05 min 09 s" (figure.Span), for figures with no interval.
+func fmtOffset(sec float64) string { return figure.Span(sec, 0) }
+
+// spans is an offset and its 95 % interval as the card shows them.
+type spans struct{ Sec, Low, High string }
+
+// offsetSpans formats a photo's offset and interval with the step the
+// interval supports, by the rule the explanation sentence uses
+// (figure.Spans), so that table and sentence show the same digits; nil
+// when the photo has no offset.
+func offsetSpans(p Photo) *spans {
+	if p.OffsetS == nil || p.OffsetLowS == nil || p.OffsetHighS == nil {
+		return nil
 	}
-	sign := "+"
-	if sec < 0 {
-		sign, sec = "−", -sec
+	var s spans
+	s.Sec, s.Low, s.High = figure.Spans(*p.OffsetS, *p.OffsetLowS, *p.OffsetHighS)
+	return &s
+}
+
+// fmtFigure writes a check's figure rounded to the step its uncertainty
+// supports (GUM §7.2.6, package figure); two decimals when it has none.
+func fmtFigure(x, u *float64) string {
+	if x == nil {
+		return "—"
 	}
-	if sec < 60 {
-		return sign + strconv.FormatFloat(sec, 'f', 1, 64) + " s"
+	if u == nil {
+		return figure.Number(*x, 0, 2)
 	}
-	t := int64(math.Round(sec))
-	d, h, m, s := t/86400, t%86400/3600, t%3600/60, t%60
-	switch {
-	case d > 0:
-		return fmt.Sprintf("%s%d d %d h %02d min", sign, d, h, m)
-	case h > 0:
-		return fmt.Sprintf("%s%d h %02d min %02d s", sign, h, m, s)
+	return figure.Number(*x, *u, 2)
+}
+
+// fmtUncertainty writes an uncertainty with two significant digits.
+func fmtUncertainty(u *float64) string {
+	if u == nil {
+		return "—"
 	}
-	return fmt.Sprintf("%s%d min %02d s", sign, m, s)
+	return figure.Uncertainty(*u)
 }
 
 func fmtOptOffset(x *float64) string {
@@ -428,7 +448,7 @@ func fmtPlace(lat, lon *float64) string {
 	if _, why := point(lat, lon); why != "" {
 		return fmt.Sprintf("%s°, %s° (not drawn: %s)", fmtOpt(lat, 5), fmtOpt(lon, 5), why)
 	}
-	return fmt.Sprintf("%s°, %s°", fmtNum(*lat, 5), fmtNum(*lon, 5))
+	return fmt.Sprintf("%s°, %s°", figure.Degrees(*lat), figure.Degrees(*lon))
 }
 
 // fmtTick writes a tick label: a signed span without zero sub-units.

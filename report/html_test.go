@@ -127,12 +127,12 @@ func TestFormatOffset(t *testing.T) {
 		sec        float64
 		want, tick string
 	}{
-		{0, "+0.0 s", "0"},
-		{-12, "−12.0 s", "−12 s"},
+		{0, "+0 s", "0"},
+		{-12, "−12 s", "−12 s"},
 		{450, "+7 min 30 s", "+7 min 30 s"},
 		{-7200, "−2 h 00 min 00 s", "−2 h"},
 		{-43200, "−12 h 00 min 00 s", "−12 h"},
-		{90061, "+1 d 1 h 01 min", "+1 d 1 h 1 min 1 s"},
+		{90061, "+1 d 1 h 01 min 01 s", "+1 d 1 h 1 min 1 s"},
 	}
 	for _, tc := range tests {
 		if got := fmtOffset(tc.sec); got != tc.want {

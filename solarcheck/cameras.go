@@ -168,8 +168,9 @@ func (x *Examiner) Apply(cs *Cameras, j int, f *Finding) {
 			f.Rejected = append(f.Rejected, Alternative{Verdict: ZoneSlip,
 				Reason: fmt.Sprintf("%s is a whole zone step, but a zone setting applies to every photo of a camera and the other photos of this camera do not share it", signedDuration(f.Basis.StepSec))})
 			f.Verdict, f.Basis.StepSec = ClockOffset, 0
+			sec, low, high := f.Offset.spans()
 			f.Explanation = fmt.Sprintf("The claimed time is off by %s (95 %% interval %s to %s) while the other photos of the same camera are not: the time of this photo alone was changed, or its clock was set by hand. A possible edit, for review.",
-				signedDuration(f.Offset.Sec), signedDuration(f.Offset.LowSec), signedDuration(f.Offset.HighSec))
+				sec, low, high)
 		}
 	case hasTimeEvidence(f) && p.Segment >= 0:
 		f.check(Check{Kind: KindCameraClock, Status: Agrees, Figure: p.ResidualSec, HasFigure: true, Unit: "s",
@@ -233,6 +234,7 @@ func (x *Examiner) judgeByCamera(f *Finding, seg clock.Segment) {
 	f.setOffset(iv)
 	f.FromCamera = true
 	x.judgeOffset(f, iv, fmt.Sprintf("its camera's clock fitted from %d photos", seg.Points))
+	sec, low, high := own.spans()
 	f.Explanation = fmt.Sprintf("Its own witnesses allow no clock error at their uncertainty (offset %s, 95 %% interval %s to %s), but its camera's clock was off at that time: %s",
-		signedDuration(own.Sec), signedDuration(own.LowSec), signedDuration(own.HighSec), f.Explanation)
+		sec, low, high, f.Explanation)
 }

@@ -2,6 +2,7 @@ package solarcheck
 
 import (
 	"fmt"
+	"github.com/gnomon-forensics/gnomon/internal/figure"
 	"math"
 	"time"
 
@@ -96,11 +97,11 @@ func (x *Examiner) checkShadows(f *Finding, p Photo) {
 	if iv.Contains(0, 0) {
 		c.Status = Agrees
 		c.Sentence = fmt.Sprintf("The shadows fit the claimed moment: the best-fitting time is %s from it, and the claim lies inside the 95 %% window (%s to %s UTC).",
-			signedDuration(iv.Sec), w.Earliest.Format("15:04:05"), w.Latest.Format("15:04:05"))
+			figure.Span(iv.Sec, iv.HalfWidth()), w.Earliest.Format("15:04:05"), w.Latest.Format("15:04:05"))
 	} else {
 		c.Status = Conflicts
 		c.Sentence = fmt.Sprintf("The shadows fit %s UTC best (95 %% window %s to %s); the claim is %s from that.",
-			w.Best.Format("2006-01-02 15:04:05"), w.Earliest.Format("15:04:05"), w.Latest.Format("15:04:05"), signedDuration(iv.Sec))
+			w.Best.Format("2006-01-02 15:04:05"), w.Earliest.Format("15:04:05"), w.Latest.Format("15:04:05"), figure.Span(iv.Sec, iv.HalfWidth()))
 	}
 	if len(ws) > 1 {
 		c.Sentence += fmt.Sprintf(" %d windows fit within ±14 h; the one nearest the claim is used.", len(ws))
@@ -284,23 +285,11 @@ func offsetLabel(sec int) string {
 	return fmt.Sprintf("UTC%c%02d:%02d", sign, sec/3600, sec%3600/60)
 }
 
-// signedDuration formats seconds as "+2 h 47 min 05 s".
-func signedDuration(sec float64) string {
-	sign := "+"
-	if sec < 0 {
-		sign, sec = "−", -sec
-	}
-	s := int64(math.Round(sec))
-	h, m, r := s/3600, s%3600/60, s%60
-	switch {
-	case h > 0:
-		return fmt.Sprintf("%s%d h %02d min %02d s", sign, h, m, r)
-	case m > 0:
-		return fmt.Sprintf("%s%d min %02d s", sign, m, r)
-	default:
-		return fmt.Sprintf("%s%d s", sign, r)
-	}
-}
+// signedDuration formats seconds as "+2 h 47 min 05 s", to the second: for
+// a figure with no interval of its own. Offsets with an interval use
+// Interval.spans, so that a sentence shows the digits the report's table
+// shows for the same figure (one rounding rule, package figure).
+func signedDuration(sec float64) string { return figure.Span(sec, 0) }
 
 func absDur(d time.Duration) time.Duration {
 	if d < 0 {

@@ -99,6 +99,7 @@ func (f *Finding) setOffset(iv Interval) {
 // judgeOffset tests the explanations of a time offset against iv.
 func (x *Examiner) judgeOffset(f *Finding, iv Interval, source string) {
 	hyps := x.hypotheses(f, iv)
+	_, lowText, highText := iv.spans()
 	var accepted []hypothesis
 	for _, h := range hyps {
 		slack := float64(stepSlackSec)
@@ -109,10 +110,11 @@ func (x *Examiner) judgeOffset(f *Finding, iv Interval, source string) {
 			accepted = append(accepted, h)
 		} else if h.verdict != ZoneSlip || math.Abs(h.sec) == 3600 {
 			f.Rejected = append(f.Rejected, Alternative{Verdict: h.verdict,
-				Reason: fmt.Sprintf("%s: the 95 %% interval of the offset (%s to %s) does not reach %s", h.label, signedDuration(iv.LowSec), signedDuration(iv.HighSec), signedDuration(h.sec))})
+				Reason: fmt.Sprintf("%s: the 95 %% interval of the offset (%s to %s) does not reach %s", h.label, lowText, highText, signedDuration(h.sec))})
 		}
 	}
-	ivText := fmt.Sprintf("%s (95 %% interval %s to %s, from %s)", signedDuration(iv.Sec), signedDuration(iv.LowSec), signedDuration(iv.HighSec), source)
+	sec, low, high := iv.spans()
+	ivText := fmt.Sprintf("%s (95 %% interval %s to %s, from %s)", sec, low, high, source)
 	if len(accepted) == 0 {
 		f.Basis.StepSec = 0
 		f.Verdict = ClockOffset

@@ -1,6 +1,7 @@
 package solarcheck
 
 import (
+	"github.com/gnomon-forensics/gnomon/internal/figure"
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
@@ -75,6 +76,13 @@ type Interval struct {
 
 // HalfWidth is half the interval's width, in seconds.
 func (iv Interval) HalfWidth() float64 { return (iv.HighSec - iv.LowSec) / 2 }
+
+// spans formats the offset and its interval as sentences show them, with
+// the rounding step the interval supports (figure.Spans); report.json
+// stores the same figures rounded by the same step.
+func (iv Interval) spans() (sec, low, high string) {
+	return figure.Spans(iv.Sec, iv.LowSec, iv.HighSec)
+}
 
 // Contains reports whether x lies in the interval widened by slack on both sides.
 func (iv Interval) Contains(x, slackSec float64) bool {

@@ -2,12 +2,14 @@ package main
 
 import (
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
 	"github.com/gnomon-forensics/gnomon/internal/democase"
+	"github.com/gnomon-forensics/gnomon/internal/figure"
 )
 
 // TestDemoFindsEveryPlantedFault builds the invented demo case, audits it
@@ -38,9 +40,12 @@ func TestDemoFindsEveryPlantedFault(t *testing.T) {
 			} `json:"self_test"`
 		} `json:"run"`
 		Photos []struct {
-			Path        string `json:"path"`
-			Verdict     string `json:"verdict"`
-			Explanation string `json:"explanation"`
+			Path        string   `json:"path"`
+			Verdict     string   `json:"verdict"`
+			Explanation string   `json:"explanation"`
+			OffsetS     *float64 `json:"offset_s"`
+			OffsetLowS  *float64 `json:"offset_low_s"`
+			OffsetHighS *float64 `json:"offset_high_s"`
 		} `json:"photos"`
 		Cameras []struct {
 			Outliers []string `json:"outliers"`
@@ -66,6 +71,18 @@ func TestDemoFindsEveryPlantedFault(t *testing.T) {
 		v := got[p.Path]
 		if !strings.HasPrefix(v, p.Expected+":") {
 			t.Errorf("%s (planted: %s): got %q, want %s", p.Path, p.Fault, v, p.Expected)
+		}
+	}
+	// The card shows the stored offset and interval rounded by figure.Spans;
+	// the explanation must state the same digits (issue 10: a card showed
+	// "+37 min 29 s" in its table and "+37 min 28 s" in its sentence).
+	for _, p := range doc.Photos {
+		if p.OffsetS == nil {
+			continue
+		}
+		sec, low, high := figure.Spans(*p.OffsetS, *p.OffsetLowS, *p.OffsetHighS)
+		if want := fmt.Sprintf("%s (95 %% interval %s to %s", sec, low, high); !strings.Contains(p.Explanation, want) {
+			t.Errorf("%s: the card shows %q, the explanation says %q", p.Path, want, p.Explanation)
 		}
 	}
 	outliers := map[string]bool{}

@@ -3,6 +3,7 @@ package audit
 import (
 	"context"
 	"fmt"
+	"github.com/gnomon-forensics/gnomon/internal/figure"
 	"math"
 	"time"
 
@@ -130,7 +131,9 @@ func photo(e Entry, s *stored) report.Photo {
 		p.Zone, p.ZoneOptions = f.Claim.Zones[0], f.Claim.Zones
 	}
 	if f.HasPlace {
-		p.Lat, p.Lon = ptr(f.LatDeg), ptr(f.LonDeg)
+		// Without the binary noise of the degrees-minutes-seconds sum:
+		// −3.6868, as the file's rationals give it, not −3.6868000000000003.
+		p.Lat, p.Lon = ptr(figure.Round(f.LatDeg, 1e-9)), ptr(figure.Round(f.LonDeg, 1e-9))
 	}
 	if f.Sun != nil {
 		s := sunAt(*f.Sun)
@@ -151,7 +154,11 @@ func photo(e Entry, s *stored) report.Photo {
 		p.Checks = append(p.Checks, rc)
 	}
 	if f.Offset != nil {
-		p.OffsetS, p.OffsetLowS, p.OffsetHighS = ptr(round(f.Offset.Sec, 1)), ptr(round(f.Offset.LowSec, 1)), ptr(round(f.Offset.HighSec, 1))
+		// Rounded by the step the interval supports, as the sentences are
+		// (figure.Spans), so that report.json, the card and the explanation
+		// state the same digits.
+		step := figure.IntervalStep(f.Offset.LowSec, f.Offset.HighSec)
+		p.OffsetS, p.OffsetLowS, p.OffsetHighS = ptr(figure.Round(f.Offset.Sec, step)), ptr(figure.Round(f.Offset.LowSec, step)), ptr(figure.Round(f.Offset.HighSec, step))
 	}
 	if !f.Earliest.IsZero() {
 		p.CorrectedUTCEarliest, p.CorrectedUTCLatest = stamp(f.Earliest), stamp(f.Latest)
@@ -220,7 +227,7 @@ func camera(c solarcheck.Camera) report.Camera {
 // one was tagged.
 func wallText(w zone.Wall) string {
 	t := time.Date(w.Year, w.Month, w.Day, w.Hour, w.Minute, w.Second, w.Nanosecond, time.UTC)
-	s := t.Format("2006-01-02T15:04:05.999999999")
+	s := t.Format("2006-01-02T15:04:05.999") // to the millisecond at most, as every figure (package figure)
 	if w.HasOffset {
 		s += time.Date(2000, 1, 1, 0, 0, 0, 0, time.FixedZone("", w.OffsetSec)).Format("-07:00")
 	}
@@ -231,12 +238,15 @@ func sunAt(s solarcheck.SunSample) report.SunAt {
 	return report.SunAt{Time: stamp(s.Time), Azimuth: round(s.AzimuthDeg, 3), Altitude: round(s.AltitudeDeg, 3)}
 }
 
-// stamp formats t as RFC 3339 UTC with the sub-seconds it has; "" for zero.
+// stamp formats t as RFC 3339 UTC with the sub-seconds it has, to the
+// millisecond at most (no camera or GPS tag records finer; a corrected time
+// computed from a float offset would otherwise show nanosecond noise); ""
+// for zero.
 func stamp(t time.Time) string {
 	if t.IsZero() {
 		return ""
 	}
-	return t.UTC().Format(time.RFC3339Nano)
+	return t.UTC().Format("2006-01-02T15:04:05.999Z07:00")
 }
 
 // round keeps d decimals: the report states figures to a precision that
