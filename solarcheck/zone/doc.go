@@ -2,10 +2,11 @@
 // a camera's wall time can denote there, offline and independently of the host.
 //
 // Methods:
-//   - Zone at a place: github.com/ringsaturn/tzf over its embedded boundary data
-//     (tzf-rel-lite, derived from timezone-boundary-builder, ODbL licence), which
-//     covers the oceans with nautical zones. Every zone whose polygon holds the point
-//     is returned (disputed and overlapping areas give several). The lite data is
+//   - Zone at a place: the boundary data of github.com/ringsaturn/tzf (tzf-rel-lite,
+//     derived from timezone-boundary-builder, ODbL licence), which covers the oceans
+//     with nautical zones, read with tzf's exact point-in-polygon rule but decoded and
+//     indexed only where it is needed (zonemap.go). Every zone whose polygon holds the
+//     point is returned (disputed and overlapping areas give several). The lite data is
 //     simplified: within a few kilometres of a border or coast a point may fall in the
 //     neighbouring zone or at sea; callers should say so when a place is that close.
 //   - Offsets: the IANA tz database copied from the Go toolchain (TZDataVersion),

@@ -3,25 +3,23 @@ package zone
 import (
 	"fmt"
 	"math"
-	"runtime"
 	"runtime/debug"
 	"strings"
 	"sync"
 
-	"github.com/ringsaturn/tzf"
 	tzfrellite "github.com/ringsaturn/tzf-rel-lite"
-	pb "github.com/ringsaturn/tzf/gen/go/tzf/v1"
-	"google.golang.org/protobuf/proto"
 )
 
-// Finder looks up the zones at a place. The boundary data costs about 1 s and
-// 150–190 MB to load, so it is loaded on the first lookup only, exactly once; a
-// Finder that never looks up a place costs nothing. Safe for concurrent use.
+// Finder looks up the zones at a place. The boundary data is decoded on the first
+// lookup only, exactly once (about 0.05 s and 20 MB; see zonemap.go), and a
+// polygon's segment index is built the first time a looked-up point falls inside
+// its bounding box; a Finder that never looks up a place costs nothing. Safe for
+// concurrent use.
 type Finder struct {
 	db *DB
 
 	once    sync.Once
-	tz      tzf.F
+	zm      *zoneMap
 	initErr error
 }
 
@@ -43,18 +41,12 @@ func (f *Finder) init() error {
 				f.initErr = &Error{Op: "load zone boundaries", Err: fmt.Errorf("%w: %v", ErrZoneMap, r)}
 			}
 		}()
-		in := &pb.CompressedTimezones{}
-		if err := proto.Unmarshal(tzfrellite.LiteCompressData, in); err != nil {
-			f.initErr = &Error{Op: "load zone boundaries", Err: fmt.Errorf("%w: %w", ErrZoneMap, err)}
-			return
-		}
-		tz, err := tzf.NewFinderFromCompressed(in, tzf.SetDropPBTZ)
+		zm, err := decodeZoneMap(tzfrellite.LiteCompressData)
 		if err != nil {
 			f.initErr = &Error{Op: "load zone boundaries", Err: fmt.Errorf("%w: %w", ErrZoneMap, err)}
 			return
 		}
-		f.tz = tz
-		runtime.GC() // release the decoded protobuf (tens of MB) now, not at the next cycle
+		f.zm = zm
 	})
 	return f.initErr
 }
@@ -68,12 +60,14 @@ type Place struct {
 }
 
 // ZoneMapVersion returns the version of the boundary data (e.g. "2025b") and of the
-// Go modules that carry it, loading the data if needed.
+// Go modules that carry it. It reads the version field only; the boundaries are
+// not decoded.
 func (f *Finder) ZoneMapVersion() (string, error) {
-	if err := f.init(); err != nil {
-		return "", err
+	dv, err := zoneMapDataVersion(tzfrellite.LiteCompressData)
+	if err != nil {
+		return "", &Error{Op: "load zone boundaries", Err: fmt.Errorf("%w: %w", ErrZoneMap, err)}
 	}
-	v := "tzf boundary data " + f.tz.DataVersion()
+	v := "tzf boundary data " + dv
 	if mods := moduleVersions(); mods != "" {
 		v += " (" + mods + ")"
 	}
@@ -100,10 +94,10 @@ func moduleVersions() string {
 }
 
 // Lookup returns the zones at a geodetic latitude and longitude (degrees, east
-// positive; longitudes outside ±180 are wrapped). tzf itself takes (longitude,
-// latitude); this method takes latitude first like every other function in gnomon.
-// Where tzf finds no polygon (a gap in the simplified data) the nautical zone of the
-// longitude is returned with a note.
+// positive; longitudes outside ±180 are wrapped). The boundary data is in
+// (longitude, latitude) order; this method takes latitude first like every other
+// function in gnomon. Where no polygon holds the point (a gap in the simplified
+// data) the nautical zone of the longitude is returned with a note.
 func (f *Finder) Lookup(latDeg, lonDeg float64) (Place, error) {
 	lonDeg, err := checkCoords(latDeg, lonDeg)
 	if err != nil {
@@ -112,15 +106,15 @@ func (f *Finder) Lookup(latDeg, lonDeg float64) (Place, error) {
 	if err := f.init(); err != nil {
 		return Place{}, err
 	}
-	names, err := f.tz.GetTimezoneNames(lonDeg, latDeg) // tzf order: (lng, lat)
-	if err != nil || len(names) == 0 {
+	names := f.zm.zonesAt(lonDeg, latDeg)
+	if len(names) == 0 {
 		name, off, _ := NauticalZone(lonDeg)
 		return Place{
 			Zones: []string{name}, AtSea: true, Source: "nautical zone from longitude",
 			Notes: []string{fmt.Sprintf("no zone polygon holds %.5f,%.5f; nautical zone %s (UTC%s) assumed", latDeg, lonDeg, name, formatOffset(off))},
 		}, nil
 	}
-	p := Place{Zones: names, AtSea: true, Source: "tzf boundary data " + f.tz.DataVersion()}
+	p := Place{Zones: names, AtSea: true, Source: "tzf boundary data " + f.zm.version}
 	for _, n := range names {
 		if !strings.HasPrefix(n, "Etc/") {
 			p.AtSea = false

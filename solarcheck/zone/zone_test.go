@@ -12,7 +12,7 @@ import (
 	"time"
 )
 
-// One Finder for the package's tests: the boundary data takes about a second to load.
+// One Finder for the package's tests, so that each polygon is indexed once.
 var (
 	testFinderOnce sync.Once
 	testFinder     *Finder
