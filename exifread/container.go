@@ -80,6 +80,28 @@ func sniff(h []byte) string {
 	return ContainerUnknown
 }
 
+// chunk hands the ln bytes at body of a PNG or WebP metadata chunk to use
+// when they are within max (the option named limit), and notes a LimitError
+// when they are not. It returns true when the file ends before the chunk
+// does and the walk cannot go on.
+func (f *found) chunk(r io.ReaderAt, where, limit string, max, body, ln, size int64, use func([]byte)) (stop bool) {
+	if ln > max {
+		f.problems = append(f.problems, &LimitError{Where: where, Limit: limit, Value: ln, Max: max})
+		return false
+	}
+	b, err := readAt(r, body, ln, size, where)
+	if err != nil {
+		f.problems = append(f.problems, err)
+		return true
+	}
+	use(b)
+	return false
+}
+
+// exifChunk takes an EXIF chunk's TIFF payload, with or without the
+// "Exif\0\0" prefix some writers keep.
+func (f *found) exifChunk(b []byte) { f.setExif(trimExifPrefix(b)) }
+
 // readAt reads exactly n bytes at off or reports a FormatError naming where.
 func readAt(r io.ReaderAt, off, n int64, size int64, where string) ([]byte, error) {
 	if off < 0 || n < 0 || off > size || n > size-off {
@@ -214,19 +236,12 @@ func walkPNG(r io.ReaderAt, size int64, opt Options) *found {
 		}
 		switch typ {
 		case "eXIf":
-			if ln > opt.MaxExifBytes {
-				f.problems = append(f.problems, &LimitError{Where: "png eXIf", Limit: "MaxExifBytes", Value: ln, Max: opt.MaxExifBytes})
-				break
-			}
-			b, err := readAt(r, body, ln, size, "png eXIf")
-			if err != nil {
-				f.problems = append(f.problems, err)
+			if f.chunk(r, "png eXIf", "MaxExifBytes", opt.MaxExifBytes, body, ln, size, f.exifChunk) {
 				return f
 			}
-			f.setExif(trimExifPrefix(b))
 		case "iTXt":
 			if ln > opt.MaxXMPBytes {
-				break
+				break // not noted: most iTXt chunks are other text, not XMP
 			}
 			b, err := readAt(r, body, ln, size, "png iTXt")
 			if err != nil {
@@ -381,27 +396,13 @@ func walkWebP(r io.ReaderAt, size int64, opt Options) *found {
 		}
 		switch fourcc {
 		case "EXIF":
-			if ln > opt.MaxExifBytes {
-				f.problems = append(f.problems, &LimitError{Where: "webp EXIF", Limit: "MaxExifBytes", Value: ln, Max: opt.MaxExifBytes})
-				break
-			}
-			b, err := readAt(r, body, ln, size, "webp EXIF")
-			if err != nil {
-				f.problems = append(f.problems, err)
+			if f.chunk(r, "webp EXIF", "MaxExifBytes", opt.MaxExifBytes, body, ln, size, f.exifChunk) {
 				return f
 			}
-			f.setExif(trimExifPrefix(b))
 		case "XMP ":
-			if ln > opt.MaxXMPBytes {
-				f.problems = append(f.problems, &LimitError{Where: "webp XMP", Limit: "MaxXMPBytes", Value: ln, Max: opt.MaxXMPBytes})
-				break
-			}
-			b, err := readAt(r, body, ln, size, "webp XMP")
-			if err != nil {
-				f.problems = append(f.problems, err)
+			if f.chunk(r, "webp XMP", "MaxXMPBytes", opt.MaxXMPBytes, body, ln, size, f.setXMP) {
 				return f
 			}
-			f.setXMP(b)
 		}
 		off = body + ln + ln&1 // chunks are padded to even length
 	}
