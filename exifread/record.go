@@ -2,6 +2,7 @@ package exifread
 
 import (
 	"encoding/json"
+	"errors"
 	"fmt"
 	"time"
 )
@@ -130,6 +131,36 @@ type WallTime struct {
 	Valid   bool   `json:"valid"`
 	Invalid string `json:"invalid,omitempty"`
 	Source  string `json:"source"`
+}
+
+// CaptureTime is the one rule for which tag holds the time a photo claims
+// to have been taken: the first valid of DateTimeOriginal,
+// DateTimeDigitized and DateTime (the last is often the time of an edit,
+// which a finding that rests on it should say), returned with the tag's
+// name. When none is valid, err says why: the first tag present but not
+// usable, or that there is none. The audit's claim and the sheet
+// template's note both use it, so they always name the same time.
+func (r *Record) CaptureTime() (w *WallTime, tag string, err error) {
+	for _, c := range []struct {
+		tag string
+		w   *WallTime
+	}{
+		{"DateTimeOriginal", r.DateTimeOriginal},
+		{"DateTimeDigitized", r.DateTimeDigitized},
+		{"DateTime", r.DateTime},
+	} {
+		switch {
+		case c.w == nil:
+		case c.w.Valid:
+			return c.w, c.tag, nil
+		case err == nil:
+			err = fmt.Errorf("%s %s is not usable: %s", c.tag, quoted(c.w.Raw), c.w.Invalid)
+		}
+	}
+	if err == nil {
+		err = errors.New("no capture time tag")
+	}
+	return nil, "", err
 }
 
 // Civil returns the wall clock as a time.Time in a zone named "wall" at

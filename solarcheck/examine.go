@@ -1,7 +1,6 @@
 package solarcheck
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"sort"
@@ -198,47 +197,24 @@ func (x *Examiner) SunPath(f *Finding) []SunSample {
 	return g
 }
 
-// captureWall picks the capture time as written: DateTimeOriginal, else
-// DateTimeDigitized, else DateTime (the last is often the time of an edit,
-// which the sentence of any finding should keep in mind).
+// captureWall is the capture time as written, chosen by
+// exifread.Record.CaptureTime, as a zone.Wall.
 func captureWall(rec exifread.Record) (zone.Wall, string, error) {
-	var firstErr error
-	for _, c := range []struct {
-		tag string
-		w   *exifread.WallTime
-	}{
-		{"DateTimeOriginal", rec.DateTimeOriginal},
-		{"DateTimeDigitized", rec.DateTimeDigitized},
-		{"DateTime", rec.DateTime},
-	} {
-		if c.w == nil {
-			continue
-		}
-		if !c.w.Valid {
-			if firstErr == nil {
-				firstErr = fmt.Errorf("%s %q is not usable: %s", c.tag, c.w.Raw, c.w.Invalid)
-			}
-			continue
-		}
-		w := zone.Wall{
-			Year: c.w.Year, Month: time.Month(c.w.Month), Day: c.w.Day,
-			Hour: c.w.Hour, Minute: c.w.Minute, Second: c.w.Second, Nanosecond: c.w.Nanosecond,
-		}
-		if c.w.OffsetSec != nil {
-			w.HasOffset, w.OffsetSec = true, *c.w.OffsetSec
-		}
-		if err := w.Validate(); err != nil {
-			if firstErr == nil {
-				firstErr = fmt.Errorf("%s %q: %w", c.tag, c.w.Raw, err)
-			}
-			continue
-		}
-		return w, c.tag, nil
+	c, tag, err := rec.CaptureTime()
+	if err != nil {
+		return zone.Wall{}, "", err
 	}
-	if firstErr == nil {
-		firstErr = errors.New("no capture time tag")
+	w := zone.Wall{
+		Year: c.Year, Month: time.Month(c.Month), Day: c.Day,
+		Hour: c.Hour, Minute: c.Minute, Second: c.Second, Nanosecond: c.Nanosecond,
 	}
-	return zone.Wall{}, "", firstErr
+	if c.OffsetSec != nil {
+		w.HasOffset, w.OffsetSec = true, *c.OffsetSec
+	}
+	if err := w.Validate(); err != nil {
+		return zone.Wall{}, "", fmt.Errorf("%s %q: %w", tag, c.Raw, err)
+	}
+	return w, tag, nil
 }
 
 // place decides where the photo was taken: the GPS tag when valid, else the
