@@ -53,15 +53,16 @@ func runAudit(e env, args []string) int {
 	fs := newFlagSet(e, "audit", "gnomon audit DIR|FILE... [--shadows SHEET.csv] [--out REPORTDIR] [--formats html,csv,json,geojson] [-j N] [--quiet] [--strict]",
 		"Read every photo under the inputs, check each claimed capture time against the sun and the other\n"+
 			"witnesses, fit each camera's clock, and write the reports. Evidence is opened read-only; the report\n"+
-			"folder may not lie inside an input. Exit 0 when the run completed, 1 when it failed (and, with\n"+
-			"--strict, when any verdict is other than consistent or unverified), 2 for bad usage.")
+			"folder may not lie inside an input; an input inside another is refused, one given twice is read once.\n"+
+			"Exit 0 when the run completed, 1 when it failed (an unusable sheet fails it; with --strict, so does\n"+
+			"any sheet problem or any verdict other than consistent or unverified), 2 for bad usage.")
 	cfg := auditConfig{args: append([]string{"gnomon", "audit"}, args...)}
 	fs.StringVar(&cfg.sheetPath, "shadows", "", "the examiner's measurement sheet (CSV; see `gnomon sheet`)")
 	fs.StringVar(&cfg.out, "out", "gnomon-report", "report folder to create (must not exist, or be empty)")
 	formats := fs.String("formats", strings.Join([]string{"html", "csv", "json", "geojson"}, ","), "report formats to write, comma-separated")
 	fs.IntVar(&cfg.workers, "j", runtime.NumCPU(), "files read at once")
 	fs.BoolVar(&cfg.quiet, "quiet", false, "no progress or summary on stderr")
-	fs.BoolVar(&cfg.strict, "strict", false, "exit 1 when any verdict is other than consistent or unverified")
+	fs.BoolVar(&cfg.strict, "strict", false, "exit 1 when any verdict is other than consistent or unverified; stop at any problem of the sheet")
 	fs.BoolVar(&cfg.thumbnails, "thumbnails", true, "write thumbnails for the HTML report")
 	if code, done := parseFlags(fs, interleave(args)); done {
 		return code
@@ -76,6 +77,14 @@ func runAudit(e env, args []string) int {
 	var err error
 	if cfg.formats, err = parseFormats(*formats); err != nil {
 		return usageErr(fs, "%v", err)
+	}
+	// Checked here, before anything is written, so that an input inside
+	// another is a usage error; doAudit's walk resolves them again.
+	if _, err = audit.Inputs(cfg.inputs); err != nil {
+		if errors.Is(err, audit.ErrNestedInput) {
+			return usageErr(fs, "%v", err)
+		}
+		return fail(e.stderr, "audit", err)
 	}
 	if err := checkOut(cfg.out, cfg.inputs); err != nil {
 		return usageErr(fs, "%v", err)
@@ -258,7 +267,7 @@ func doAudit(ctx context.Context, e env, cfg auditConfig) (sum summary, err erro
 	go func() { stDone <- selftest.Run(zones) }()
 	x := solarcheck.NewExaminer(solarcheck.Options{Zones: zones})
 
-	opt := audit.Options{Workers: cfg.workers, Examiner: x, Sheet: sh, SpoolDir: cfg.out}
+	opt := audit.Options{Workers: cfg.workers, Examiner: x, Sheet: sh, StrictSheet: cfg.strict, SpoolDir: cfg.out}
 	// Thumbnails are made while each file is read, except on a batch too
 	// large for every photo to get a card: then only the carded photos get
 	// one, after the run (audit.LateThumbnails).

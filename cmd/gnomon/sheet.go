@@ -1,6 +1,8 @@
 package main
 
 import (
+	"fmt"
+
 	"github.com/gnomon-forensics/gnomon/exifread"
 	"github.com/gnomon-forensics/gnomon/internal/audit"
 	"github.com/gnomon-forensics/gnomon/solarcheck/sheet"
@@ -31,9 +33,10 @@ func runSheet(e env, args []string) int {
 		if rec.Container == exifread.ContainerUnknown {
 			continue
 		}
-		r := sheet.TemplateRow{Photo: en.Rel}
-		if w := firstWall(rec); w != nil {
-			r.ClaimedLocal = w.Raw
+		r := sheet.TemplateRow{Photo: en.ID}
+		if w, tag, err := rec.CaptureTime(); err == nil {
+			r.ClaimedLocal = fmt.Sprintf("%04d-%02d-%02d %02d:%02d:%02d", w.Year, w.Month, w.Day, w.Hour, w.Minute, w.Second)
+			r.ClaimTag = tag
 		}
 		if p := rec.GPS.Position; p != nil && p.Valid {
 			r.Lat, r.Lon = p.LatDeg, p.LonDeg
@@ -44,15 +47,4 @@ func runSheet(e env, args []string) int {
 		return fail(e.stderr, "sheet", err)
 	}
 	return exitOK
-}
-
-// firstWall is the capture time a sheet row names: DateTimeOriginal, else
-// DateTimeDigitized, else DateTime.
-func firstWall(rec exifread.Record) *exifread.WallTime {
-	for _, w := range []*exifread.WallTime{rec.DateTimeOriginal, rec.DateTimeDigitized, rec.DateTime} {
-		if w != nil {
-			return w
-		}
-	}
-	return nil
 }

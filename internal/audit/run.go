@@ -30,8 +30,14 @@ type Options struct {
 	Workers int
 	// Examiner runs the checks; it holds the zone finder.
 	Examiner *solarcheck.Examiner
-	// Sheet is the examiner's measurement sheet, nil for none.
+	// Sheet is the examiner's measurement sheet, nil for none. Run refuses
+	// a sheet that is unusable (sheet.Sheet.Unusable) or none of whose rows
+	// reaches a photo: going on would report every photo as if nothing had
+	// been measured.
 	Sheet *sheet.Sheet
+	// StrictSheet makes any problem of the sheet (a bad cell, a row naming
+	// no photo or several) end the run before any file is read.
+	StrictSheet bool
 	// Read bounds the metadata reader.
 	Read exifread.Options
 	// SpoolDir is the folder for the spool file that holds the findings
@@ -94,7 +100,10 @@ const spoolWindow = 1024
 // cancelled; a run that returns an error has no usable result and leaves
 // no spool.
 func Run(ctx context.Context, entries []Entry, o Options) (res *Result, err error) {
-	rows, problems := resolveSheet(o.Sheet, entries)
+	rows, problems, err := resolveSheet(o.Sheet, entries, o.StrictSheet)
+	if err != nil {
+		return nil, err
+	}
 	sp, err := createSpool(o.SpoolDir)
 	if err != nil {
 		return nil, err
@@ -111,7 +120,7 @@ func Run(ctx context.Context, entries []Entry, o Options) (res *Result, err erro
 	err = inOrder(ctx, len(entries), o.Workers, spoolWindow,
 		func(k int) stored {
 			i := res.order[k]
-			s := o.process(i, entries[i], rows[entries[i].key()])
+			s := o.process(i, entries[i], rows[entries[i].ID])
 			if o.Progress != nil {
 				o.Progress()
 			}
@@ -183,14 +192,11 @@ func (r *Result) each(ctx context.Context, fn func(k int, s *stored) error) erro
 	return nil
 }
 
-// key identifies an entry for the sheet: its path relative to its input.
-func (e Entry) key() string { return e.Rel }
-
 // process reads and examines one entry.
 func (o Options) process(i int, e Entry, rows []sheet.Row) stored {
 	if e.Err != nil {
 		return stored{Container: exifread.ContainerUnknown, Error: e.Err.Error(),
-			Finding: solarcheck.Finding{Path: e.Rel, Verdict: solarcheck.Unreadable, Explanation: "Not read: " + e.Err.Error() + "."}}
+			Finding: solarcheck.Finding{Path: e.ID, Verdict: solarcheck.Unreadable, Explanation: "Not read: " + e.Err.Error() + "."}}
 	}
 	rec := exifread.ReadFile(e.Abs, o.Read)
 	s := stored{SHA256: rec.SHA256, Size: rec.Size, Container: rec.Container, Error: string(rec.Error)}
@@ -202,7 +208,7 @@ func (o Options) process(i int, e Entry, rows []sheet.Row) stored {
 		// Hashed like every file; its "unsupported container" is expected
 		// (an XMP file is not a photo) and would only contradict the row.
 		s.Error = ""
-		s.Finding = solarcheck.Finding{Path: e.Rel, Verdict: solarcheck.Unreadable,
+		s.Finding = solarcheck.Finding{Path: e.ID, Verdict: solarcheck.Unreadable,
 			Explanation: fmt.Sprintf("XMP sidecar of %s: not a photo; its contents are read with that photo.", e.SidecarOf)}
 		return s
 	}
@@ -211,32 +217,58 @@ func (o Options) process(i int, e Entry, rows []sheet.Row) stored {
 	}
 	rec.Thumbnail = nil // the preview has served
 	ms, ov := examinerInput(rows)
-	s.Finding = o.Examiner.Examine(solarcheck.Photo{Path: e.Rel, Record: rec, Measurements: ms, Override: ov})
+	s.Finding = o.Examiner.Examine(solarcheck.Photo{Path: e.ID, Record: rec, Measurements: ms, Override: ov})
 	return s
 }
 
-// resolveSheet matches the sheet's rows to the entries.
-func resolveSheet(s *sheet.Sheet, entries []Entry) (map[string][]sheet.Row, []string) {
+// resolveSheet matches the sheet's rows to the entries by their IDs (see
+// Entry). It fails when the sheet is unusable, when no row reaches a photo,
+// and, when strict, at the sheet's first problem; otherwise the problems
+// are listed for the report.
+func resolveSheet(s *sheet.Sheet, entries []Entry, strict bool) (map[string][]sheet.Row, []string, error) {
 	if s == nil {
-		return nil, nil
+		return nil, nil, nil
+	}
+	if s.Unusable != nil {
+		return nil, nil, fmt.Errorf("measurement sheet unusable: %w", s.Unusable)
 	}
 	var problems []string
 	for _, p := range s.Problems {
 		problems = append(problems, p.Error())
 	}
-	paths := make([]string, 0, len(entries))
+	names := make([]sheet.Name, 0, len(entries))
 	for _, e := range entries {
 		if e.Err == nil && e.SidecarOf == "" {
-			paths = append(paths, e.key())
+			names = append(names, sheet.Name{ID: e.ID, Rel: e.Rel})
 		}
 	}
-	rows, err := s.Resolve(paths)
+	rows, err := s.Resolve(names)
 	if err != nil {
 		for _, e := range unwrapAll(err) {
 			problems = append(problems, e.Error())
 		}
 	}
-	return rows, problems
+	used := 0
+	for _, rs := range rows {
+		used += len(rs)
+	}
+	switch {
+	case len(s.Rows) == 0:
+		return nil, nil, fmt.Errorf("measurement sheet %s: no row gives a measurement or an override (%d problems; the first: %s)", s.File, len(problems), firstOr(problems, "none"))
+	case used == 0:
+		return nil, nil, fmt.Errorf("measurement sheet %s: none of its %d rows can be applied to a photo of the audit (the first problem: %s)", s.File, len(s.Rows), firstOr(problems, "none"))
+	case strict && len(problems) > 0:
+		return nil, nil, fmt.Errorf("measurement sheet %s has %d problems and a strict run stops at any (the first: %s)", s.File, len(problems), problems[0])
+	}
+	return rows, problems, nil
+}
+
+// firstOr returns the first of list, or none when it is empty.
+func firstOr(list []string, none string) string {
+	if len(list) == 0 {
+		return none
+	}
+	return list[0]
 }
 
 // unwrapAll splits an errors.Join result into its parts.

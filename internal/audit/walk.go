@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io/fs"
 	"os"
+	"path"
 	"path/filepath"
 	"sort"
 	"strings"
@@ -13,10 +14,19 @@ import (
 // Entry is one item found under an input: a file to read, or something
 // that could not be read, with why. Every item the walk meets becomes an
 // entry, so that the report accounts for the whole evidence folder.
+//
+// An item is identified by its input and its path inside it, never by the
+// relative path alone: two memory cards both holding DCIM/IMG_0001.JPG
+// hold two different photos. ID is that identity written as one slash
+// path (the input's label, then Rel), the name the sheet template gives
+// the photo and the key the sheet's rows are matched to.
 type Entry struct {
 	Root string // the input as given on the command line
 	Abs  string // absolute path of the item
 	Rel  string // slash path relative to Root; the base name for a file input
+	// ID is Input.Label joined with Rel for a folder input, and the label
+	// alone for a file input (whose label ends with the file's name).
+	ID string
 	// Err says why the item is not read as a photo (not a regular file,
 	// permission denied, a link out of the tree); nil for a readable file.
 	Err error
@@ -40,14 +50,116 @@ var ErrLinkBroken = errors.New("symbolic link that loops or points to nothing; n
 // their real paths only, so that no loop can form.
 var ErrLinkDir = errors.New("symbolic link to a folder; not followed (its contents are audited through their real path)")
 
-// Walk lists every item under the inputs, sorted by input then by relative
-// path. Symbolic links to files inside the same input are read; links to
-// folders and links leaving the input are listed with a reason and not
-// followed, so the walk cannot loop. It fails only when an input itself
+// ErrNestedInput marks an input that lies inside another input: its files
+// would be counted twice, once under each, and a camera's clock model would
+// take each photo for two witnesses. It is a usage error.
+var ErrNestedInput = errors.New("lies inside another input; give only the outer folder")
+
+// Input is one input of the command line after the duplicates are gone.
+type Input struct {
+	Arg   string // as given
+	Abs   string // absolute, cleaned
+	Real  string // Abs with every symbolic link resolved
+	IsDir bool
+	// Label names the input in the items' IDs: the last element of Abs,
+	// or as many last elements as it takes to tell it from every other
+	// input's (/a/card and /b/card are "a/card" and "b/card").
+	Label string
+}
+
+// Inputs resolves the inputs given on the command line. Inputs with the
+// same real path ("ph", "ph/", "./ph", a link to ph) are one input, kept
+// under its first spelling. An input that cannot be examined (it does not
+// exist, permission denied) is left out and its error returned, joined with
+// the others', so that a caller that can go on without it may; an input
+// inside another makes an error wrapping ErrNestedInput.
+func Inputs(args []string) ([]Input, error) {
+	var ins []Input
+	var errs []error
+	seen := map[string]bool{}
+	for _, a := range args {
+		abs, err := filepath.Abs(a)
+		if err == nil {
+			var st os.FileInfo
+			if st, err = os.Stat(abs); err == nil {
+				var real string
+				if real, err = filepath.EvalSymlinks(abs); err == nil {
+					if !seen[real] {
+						seen[real] = true
+						ins = append(ins, Input{Arg: a, Abs: abs, Real: real, IsDir: st.IsDir()})
+					}
+					continue
+				}
+			}
+		}
+		errs = append(errs, fmt.Errorf("input %q: %w", a, unwrapPath(err)))
+	}
+	for _, in := range ins {
+		for _, out := range ins {
+			if out.IsDir && in.Real != out.Real && within(in.Real, out.Real) {
+				return nil, fmt.Errorf("input %q %w %q", in.Arg, ErrNestedInput, out.Arg)
+			}
+		}
+	}
+	label(ins)
+	return ins, errors.Join(errs...)
+}
+
+// unwrapPath drops the *fs.PathError wrapper, whose path repeats the
+// input's name in a message that already gives it.
+func unwrapPath(err error) error {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
+
+// label gives every input the shortest tail of its absolute path that no
+// other input shares; distinct inputs have distinct absolute paths, so one
+// always exists.
+func label(ins []Input) {
+	parts := make([][]string, len(ins))
+	for i, in := range ins {
+		parts[i] = strings.Split(strings.Trim(filepath.ToSlash(in.Abs), "/"), "/")
+	}
+	tail := func(p []string, k int) string { return strings.Join(p[max(0, len(p)-k):], "/") }
+	for i := range ins {
+		k := 1
+		for ; k < len(parts[i]); k++ {
+			clash := false
+			for j := range ins {
+				clash = clash || (j != i && tail(parts[j], k) == tail(parts[i], k))
+			}
+			if !clash {
+				break
+			}
+		}
+		ins[i].Label = tail(parts[i], k)
+		if ins[i].Label == "" {
+			ins[i].Label = "/" // the file system's root
+		}
+	}
+}
+
+// Walk resolves args (see Inputs) and lists every item under them; any
+// input problem ends it. See WalkInputs.
+func Walk(args []string) ([]Entry, error) {
+	ins, err := Inputs(args)
+	if err != nil {
+		return nil, err
+	}
+	return WalkInputs(ins)
+}
+
+// WalkInputs lists every item under the inputs, sorted by input then by
+// relative path. Symbolic links to files inside the same input are read;
+// links to folders and links leaving the input are listed with a reason and
+// not followed, so the walk cannot loop. It fails only when an input itself
 // cannot be examined.
-func Walk(inputs []string) ([]Entry, error) {
+func WalkInputs(ins []Input) ([]Entry, error) {
 	var all []Entry
-	for _, in := range inputs {
+	for _, in := range ins {
 		es, err := walkOne(in)
 		if err != nil {
 			return nil, err
@@ -59,25 +171,18 @@ func Walk(inputs []string) ([]Entry, error) {
 	return all, nil
 }
 
-func walkOne(in string) ([]Entry, error) {
-	abs, err := filepath.Abs(in)
-	if err != nil {
-		return nil, fmt.Errorf("input %q: %w", in, err)
-	}
+func walkOne(in Input) ([]Entry, error) {
+	abs := in.Abs
 	st, err := os.Stat(abs)
 	if err != nil {
-		return nil, fmt.Errorf("input %q: %w", in, err)
+		return nil, fmt.Errorf("input %q: %w", in.Arg, err)
 	}
 	if !st.IsDir() {
-		e := Entry{Root: in, Abs: abs, Rel: filepath.Base(abs)}
+		e := Entry{Root: in.Arg, Abs: abs, Rel: filepath.Base(abs), ID: in.Label}
 		if !st.Mode().IsRegular() {
 			e.Err = ErrNotRegular
 		}
 		return []Entry{e}, nil
-	}
-	real, err := filepath.EvalSymlinks(abs)
-	if err != nil {
-		return nil, fmt.Errorf("input %q: %w", in, err)
 	}
 	var es []Entry
 	err = filepath.WalkDir(abs, func(p string, d fs.DirEntry, werr error) error {
@@ -85,7 +190,8 @@ func walkOne(in string) ([]Entry, error) {
 		if rerr != nil {
 			return rerr
 		}
-		e := Entry{Root: in, Abs: p, Rel: filepath.ToSlash(rel)}
+		rel = filepath.ToSlash(rel)
+		e := Entry{Root: in.Arg, Abs: p, Rel: rel, ID: path.Join(in.Label, rel)}
 		if werr != nil {
 			if p == abs {
 				return werr
@@ -102,7 +208,7 @@ func walkOne(in string) ([]Entry, error) {
 		}
 		switch t := d.Type(); {
 		case t&fs.ModeSymlink != 0:
-			e.Err = checkLink(p, real)
+			e.Err = checkLink(p, in.Real)
 		case !t.IsRegular():
 			e.Err = ErrNotRegular
 		}
@@ -110,7 +216,7 @@ func walkOne(in string) ([]Entry, error) {
 		return nil
 	})
 	if err != nil {
-		return nil, fmt.Errorf("input %q: %w", in, err)
+		return nil, fmt.Errorf("input %q: %w", in.Arg, err)
 	}
 	return es, nil
 }

@@ -4,6 +4,8 @@ import (
 	"errors"
 	"os"
 	"path/filepath"
+	"slices"
+	"strings"
 	"syscall"
 	"testing"
 )
@@ -122,5 +124,87 @@ func TestInside(t *testing.T) {
 		if _, got := Inside(c.out, []string{ev}); got != c.want {
 			t.Errorf("Inside(%q) = %v, want %v", c.out, got, c.want)
 		}
+	}
+}
+
+// TestInputs: one input per real folder, whatever its spelling; an input
+// inside another refused; labels that tell inputs apart.
+func TestInputs(t *testing.T) {
+	base := t.TempDir()
+	t.Chdir(base)
+	for _, d := range []string{"ph/sub", "a/card", "b/card", "x/a/card"} {
+		if err := os.MkdirAll(filepath.Join(base, d), 0o755); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := os.WriteFile(filepath.Join(base, "ph", "sub", "f.jpg"), []byte("x"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.Symlink(filepath.Join(base, "ph"), filepath.Join(base, "alias")); err != nil {
+		t.Fatal(err)
+	}
+	cases := []struct {
+		name   string
+		args   []string
+		labels []string // nil: an error is wanted
+		nested bool
+	}{
+		{"one folder spelt four ways", []string{"ph", "ph/", "./ph", "alias"}, []string{"ph"}, false},
+		{"equal base names: parents added", []string{"a/card", "b/card"}, []string{"a/card", "b/card"}, false},
+		{"as many parents as it takes", []string{"a/card", "x/a/card", "b/card"}, []string{filepath.Base(base) + "/a/card", "x/a/card", "b/card"}, false},
+		{"a folder inside another", []string{"ph", "ph/sub"}, nil, true},
+		{"a file inside a folder", []string{"ph/sub/f.jpg", "ph"}, nil, true},
+		{"a file input is labelled by its name", []string{"ph/sub/f.jpg"}, []string{"f.jpg"}, false},
+		{"missing input", []string{"ph", "nothing"}, nil, false},
+	}
+	for _, c := range cases {
+		ins, err := Inputs(c.args)
+		if c.labels == nil {
+			if err == nil || errors.Is(err, ErrNestedInput) != c.nested {
+				t.Errorf("%s: err %v, want an error (nested: %v)", c.name, err, c.nested)
+			}
+			continue
+		}
+		if err != nil {
+			t.Errorf("%s: %v", c.name, err)
+			continue
+		}
+		var got []string
+		for _, in := range ins {
+			got = append(got, in.Label)
+		}
+		if !slices.Equal(got, c.labels) {
+			t.Errorf("%s: labels %q, want %q", c.name, got, c.labels)
+		}
+	}
+	// The missing input is named, and the others are still returned.
+	ins, err := Inputs([]string{"ph", "nothing"})
+	if len(ins) != 1 || err == nil || !strings.Contains(err.Error(), `input "nothing"`) {
+		t.Errorf("missing input: %d inputs, err %v", len(ins), err)
+	}
+}
+
+// TestWalkIDs: an entry's ID is its input's label and its path inside it.
+func TestWalkIDs(t *testing.T) {
+	base := t.TempDir()
+	for _, p := range []string{"a/card/DCIM/IMG_1.JPG", "b/card/DCIM/IMG_1.JPG"} {
+		if err := os.MkdirAll(filepath.Dir(filepath.Join(base, p)), 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(base, p), []byte("x"), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	es, err := Walk([]string{filepath.Join(base, "a", "card"), filepath.Join(base, "b", "card"), filepath.Join(base, "a", "card", "DCIM", "..")})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got []string
+	for _, e := range es {
+		got = append(got, e.ID+" = "+e.Rel)
+	}
+	want := []string{"a/card/DCIM/IMG_1.JPG = DCIM/IMG_1.JPG", "b/card/DCIM/IMG_1.JPG = DCIM/IMG_1.JPG"}
+	if !slices.Equal(got, want) {
+		t.Errorf("entries %q, want %q", got, want)
 	}
 }

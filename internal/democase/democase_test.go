@@ -14,6 +14,7 @@ import (
 	"math/rand/v2"
 	"os"
 	"os/exec"
+	"path"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -401,9 +402,9 @@ func TestSheetSPARoundTrip(t *testing.T) {
 	if len(sh.Problems) > 0 || len(sh.Rows) != len(rows) {
 		t.Errorf("sheet reader: %d problems (first %v), %d of %d rows", len(sh.Problems), firstProblem(sh.Problems), len(sh.Rows), len(rows))
 	}
-	var paths []string
+	var paths []sheet.Name
 	for _, p := range c.Photos {
-		paths = append(paths, p.Path)
+		paths = append(paths, sheet.Name{ID: path.Join(path.Base(filepath.ToSlash(c.PhotosDir)), p.Path), Rel: p.Path})
 	}
 	if _, err := sh.Resolve(paths); err != nil {
 		t.Errorf("sheet rows do not resolve to the photos: %v", err)

@@ -3,6 +3,7 @@ package sheet
 import (
 	"errors"
 	"fmt"
+	"strconv"
 )
 
 // Causes of a bad cell, row or header. Test them with errors.Is on a
@@ -12,6 +13,7 @@ var (
 	ErrEncoding            = errors.New("not valid UTF-8")
 	ErrTooLarge            = errors.New("sheet larger than the size limit")
 	ErrNoHeader            = errors.New("no header line")
+	ErrNotText             = errors.New("not a text file (a CSV sheet holds UTF-8 text, no NUL bytes)")
 	ErrUnknownColumn       = errors.New("unknown column (ignored)")
 	ErrDuplicateColumn     = errors.New("column named twice (second ignored)")
 	ErrExtraField          = errors.New("more cells than header columns")
@@ -25,7 +27,7 @@ var (
 	ErrIncomplete          = errors.New("incomplete measurement")
 	ErrDuplicate           = errors.New("duplicate row (dropped)")
 	ErrUnknownPhoto        = errors.New("no photo of that name in the audited folders")
-	ErrAmbiguousPhoto      = errors.New("file name matches several photos; give the relative path")
+	ErrAmbiguousPhoto      = errors.New("names several photos; write the photo as the sheet template names it")
 	ErrConflictingOverride = errors.New("override differs from an earlier row for the same photo (row dropped)")
 )
 
@@ -69,4 +71,27 @@ func joinProblems(ps []*ParseError) error {
 		errs[i] = p
 	}
 	return errors.Join(errs...)
+}
+
+// quoteRunes is how many characters of a cell a message quotes.
+const quoteRunes = 40
+
+// Quote writes a cell's text for a message: in double quotes with Go
+// escapes (strconv.Quote), so control characters and invalid UTF-8 show as
+// escapes rather than reaching a terminal or a report raw, and cut after
+// quoteRunes characters with "…" after the closing quote, so that a wrong
+// file (a photo given as the sheet) cannot fill a message with its bytes.
+func Quote(cell string) string {
+	n, cut := 0, len(cell)
+	for i := range cell {
+		if n == quoteRunes {
+			cut = i
+			break
+		}
+		n++
+	}
+	if cut == len(cell) {
+		return strconv.Quote(cell)
+	}
+	return strconv.Quote(cell[:cut]) + "…"
 }

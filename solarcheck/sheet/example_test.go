@@ -27,8 +27,11 @@ func ExampleParse() {
 func ExampleSheet_Resolve() {
 	src := "photo,sun_azimuth\nIMG_0001.jpg,181\nday2/IMG_0002.jpg,200\nIMG_0009.jpg,90\n"
 	s, _ := sheet.Parse(strings.NewReader(src), "m.csv")
-	rows, err := s.Resolve([]string{"day1/IMG_0001.jpg", "day2/IMG_0002.jpg"})
-	fmt.Println(len(rows["day1/IMG_0001.jpg"]), len(rows["day2/IMG_0002.jpg"]))
+	rows, err := s.Resolve([]sheet.Name{
+		{ID: "card/day1/IMG_0001.jpg", Rel: "day1/IMG_0001.jpg"},
+		{ID: "card/day2/IMG_0002.jpg", Rel: "day2/IMG_0002.jpg"},
+	})
+	fmt.Println(len(rows["card/day1/IMG_0001.jpg"]), len(rows["card/day2/IMG_0002.jpg"]))
 	fmt.Println(err)
 	// Output:
 	// 1 1
@@ -39,11 +42,13 @@ func ExampleWriteTemplate() {
 	lat, lon := 45.4642, 9.19
 	var buf strings.Builder
 	_ = sheet.WriteTemplate(&buf, []sheet.TemplateRow{
-		{Photo: "trip/IMG_0001.jpg", ClaimedLocal: "2026-05-03 14:22:05", Lat: &lat, Lon: &lon},
+		{Photo: "trip/IMG_0001.jpg", ClaimedLocal: "2026-05-03 14:22:05", ClaimTag: "DateTimeOriginal", Lat: &lat, Lon: &lon},
+		{Photo: "trip/IMG_0002.jpg"},
 	})
 	// Lines end in CRLF (RFC 4180); shown here as plain line breaks.
 	fmt.Print(strings.ReplaceAll(buf.String(), "\r\n", "\n"))
 	// Output:
 	// photo,object,object_height,shadow_length,shadow_bearing,bearing_ref,bearing_sd,length_sd_pct,slope,slope_toward,sun_azimuth,sun_altitude,declination,lat,lon,time,note
-	// trip/IMG_0001.jpg,,,,,,,,,,,,,,,,claimed 2026-05-03 14:22:05 (camera clock) at 45.464200 9.190000 (GPS tag)
+	// trip/IMG_0001.jpg,,,,,,,,,,,,,,,,camera clock says 2026-05-03 14:22:05; GPS says lat 45.4642 lon 9.19
+	// trip/IMG_0002.jpg,,,,,,,,,,,,,,,,no capture time in the file; no GPS position: give lat/lon
 }

@@ -96,9 +96,9 @@ func FuzzParse(f *testing.F) {
 		}
 		// Resolve against the names themselves: no panic, only given paths
 		// come back, no row twice, and every lost row is explained.
-		paths := make([]string, len(tmpl))
+		paths := make([]Name, len(tmpl))
 		for i, r := range tmpl {
-			paths[i] = r.Photo
+			paths[i] = Name{ID: r.Photo, Rel: r.Photo}
 		}
 		matched, rerr := s.Resolve(paths)
 		total := 0

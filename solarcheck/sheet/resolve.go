@@ -7,56 +7,73 @@ import (
 	"strings"
 )
 
-// Resolve matches every row to one of paths, the photos of the audit given
-// relative to their audited folder in slash form. A row's photo cell matches
+// Name is how the audit knows one photo: ID is unique across the audit
+// (the input's label, then the path inside it, slash form: "card1/DCIM/
+// IMG_0001.JPG"), Rel is the path inside its input ("DCIM/IMG_0001.JPG"),
+// which two inputs may share.
+type Name struct {
+	ID, Rel string
+}
+
+// maxCandidates is how many matching photos an ambiguity message lists.
+const maxCandidates = 5
+
+// Resolve matches every row to one of photos. A row's photo cell, after
+// turning '\' into '/' and cleaning it (path.Clean, so "./a/b.jpg" is
+// "a/b.jpg"), matches
 //
-//  1. a path equal to it, after turning '\' into '/' and cleaning it
-//     (path.Clean, so "./a/b.jpg" is "a/b.jpg"); or, failing that,
-//  2. when the cell is a bare file name (no '/'), the one path whose base
-//     name equals it.
+//  1. every photo whose ID or Rel equals it; or, when none does,
+//  2. when the cell is a bare file name (no '/'), every photo whose Rel has
+//     that base name.
 //
-// Matching is case-sensitive, as file names are on most systems that hold
-// evidence. A name that matches nothing gives ErrUnknownPhoto; a bare name
-// that matches two or more paths gives ErrAmbiguousPhoto, listing them. Both
-// are *ParseError values at the row's photo cell. The map holds the rows that
-// matched, keyed by the path from paths, in sheet order; the error joins
-// every problem (nil when none).
+// A row is applied only when exactly one photo matches: a row that could
+// belong to two photos (the same relative path under two inputs, a bare
+// name found in two folders) is ErrAmbiguousPhoto, naming the candidates by
+// ID, and is applied to none, so that one photo's measurements never reach
+// another. Matching is case-sensitive, as file names are on most systems
+// that hold evidence. A name that matches nothing gives ErrUnknownPhoto.
+// Both are *ParseError values at the row's photo cell. The map holds the
+// rows that matched, keyed by ID, in sheet order; the error joins every
+// problem (nil when none).
 //
 // Overrides must agree across a photo's rows: a row whose lat/lon or time
 // differs from an earlier row of the same photo is reported
 // (ErrConflictingOverride, located at the record's first line) and dropped.
-func (s *Sheet) Resolve(paths []string) (map[string][]Row, error) {
-	exact := make(map[string]string, len(paths))
+func (s *Sheet) Resolve(photos []Name) (map[string][]Row, error) {
+	byName := map[string][]string{} // ID or Rel → IDs
 	byBase := map[string][]string{}
-	for _, p := range paths {
-		exact[p] = p
-		b := path.Base(p)
-		byBase[b] = append(byBase[b], p)
+	for _, p := range photos {
+		byName[p.ID] = append(byName[p.ID], p.ID)
+		if p.Rel != p.ID {
+			byName[p.Rel] = append(byName[p.Rel], p.ID)
+		}
+		b := path.Base(p.Rel)
+		byBase[b] = append(byBase[b], p.ID)
 	}
 	out := map[string][]Row{}
 	var probs []*ParseError
 	for _, r := range s.Rows {
-		cell := strings.ReplaceAll(r.Photo, `\`, "/")
-		clean := path.Clean(cell)
-		if p, ok := exact[clean]; ok {
-			out[p] = append(out[p], r)
-			continue
+		clean := path.Clean(strings.ReplaceAll(r.Photo, `\`, "/"))
+		m := byName[clean]
+		if len(m) == 0 && !strings.Contains(clean, "/") {
+			m = byBase[clean]
 		}
 		var err error
-		if !strings.Contains(clean, "/") {
-			switch m := byBase[clean]; len(m) {
-			case 1:
-				out[m[0]] = append(out[m[0]], r)
-				continue
-			case 0:
-				err = fmt.Errorf("%w: %q", ErrUnknownPhoto, r.Photo)
-			default:
-				m = append([]string(nil), m...)
-				sort.Strings(m)
-				err = fmt.Errorf("%w: %q matches %s", ErrAmbiguousPhoto, r.Photo, strings.Join(m, ", "))
+		switch len(m) {
+		case 1:
+			out[m[0]] = append(out[m[0]], r)
+			continue
+		case 0:
+			err = fmt.Errorf("%w: %s", ErrUnknownPhoto, Quote(r.Photo))
+		default:
+			m = append([]string(nil), m...)
+			sort.Strings(m)
+			list := m[:min(len(m), maxCandidates)]
+			more := ""
+			if len(m) > len(list) {
+				more = fmt.Sprintf(" and %d more", len(m)-len(list))
 			}
-		} else {
-			err = fmt.Errorf("%w: %q", ErrUnknownPhoto, r.Photo)
+			err = fmt.Errorf("%w: %s matches %s%s; the row is applied to none", ErrAmbiguousPhoto, Quote(r.Photo), strings.Join(list, ", "), more)
 		}
 		probs = append(probs, &ParseError{File: r.File, StartLine: r.Line, Line: r.Line, Column: r.PhotoColumn, Name: ColPhoto, Err: err})
 	}

@@ -138,6 +138,11 @@ type Sheet struct {
 	Rows      []Row
 	// Problems lists every bad cell, row and header column, in file order.
 	Problems []*ParseError
+	// Unusable is set, and also listed in Problems, when the sheet cannot
+	// be read at all: too large, not text, no header, no photo column. A
+	// run given such a sheet must stop rather than go on as if no
+	// measurement had been made.
+	Unusable *ParseError
 }
 
 // Parse reads a sheet from r; name is used in messages. It always returns a
@@ -153,10 +158,14 @@ func Parse(r io.Reader, name string) (*Sheet, error) {
 		return s, fmt.Errorf("sheet %s: %w", name, err)
 	}
 	if len(data) > MaxBytes {
-		s.add(1, 1, 0, "", ErrTooLarge)
+		s.unusable(1, ErrTooLarge)
 		return s, joinProblems(s.Problems)
 	}
 	data = bytes.TrimPrefix(data, []byte("\uFEFF"))
+	if line, ok := notText(data); ok {
+		s.unusable(line, ErrNotText)
+		return s, joinProblems(s.Problems)
+	}
 	s.Separator = detectSeparator(data)
 
 	cr := csv.NewReader(bytes.NewReader(data))
@@ -168,8 +177,9 @@ func Parse(r io.Reader, name string) (*Sheet, error) {
 		var pe *csv.ParseError
 		if errors.As(err, &pe) {
 			s.add(pe.StartLine, pe.Line, 0, "", fmt.Errorf("%w: %v (byte column %d)", ErrSyntax, pe.Err, pe.Column))
+			s.Unusable = s.Problems[len(s.Problems)-1]
 		} else {
-			s.add(1, 1, 0, "", ErrNoHeader)
+			s.unusable(1, ErrNoHeader)
 		}
 		return s, joinProblems(s.Problems)
 	}
@@ -184,7 +194,7 @@ func Parse(r io.Reader, name string) (*Sheet, error) {
 		n := strings.ToLower(strings.TrimSpace(h))
 		switch {
 		case !known[n]:
-			s.add(1, line, i+1, h, fmt.Errorf("%w: %q", ErrUnknownColumn, h))
+			s.add(1, line, i+1, "", fmt.Errorf("%w: %s", ErrUnknownColumn, Quote(h)))
 		case seen[n]:
 			s.add(1, line, i+1, h, ErrDuplicateColumn)
 		default:
@@ -193,7 +203,7 @@ func Parse(r io.Reader, name string) (*Sheet, error) {
 		}
 	}
 	if !seen[ColPhoto] {
-		s.add(1, 1, 0, "", fmt.Errorf("%w: header has no %q column", ErrMissing, ColPhoto))
+		s.unusable(1, fmt.Errorf("%w: header has no %q column", ErrMissing, ColPhoto))
 		return s, joinProblems(s.Problems)
 	}
 
@@ -227,6 +237,27 @@ func Parse(r io.Reader, name string) (*Sheet, error) {
 
 func (s *Sheet) add(start, line, col int, name string, err error) {
 	s.Problems = append(s.Problems, &ParseError{File: s.File, StartLine: start, Line: line, Column: col, Name: name, Err: err})
+}
+
+// unusable records a problem that makes the whole sheet unusable.
+func (s *Sheet) unusable(line int, err error) {
+	s.add(line, line, 0, "", err)
+	s.Unusable = s.Problems[len(s.Problems)-1]
+}
+
+// notText reports whether data is not a text file, and the first line that
+// shows it: a NUL byte (which no text file holds, and every photo does), or
+// a first line that is not UTF-8. A single badly encoded cell further down
+// is only a bad cell.
+func notText(data []byte) (line int, bad bool) {
+	if i := bytes.IndexByte(data, 0); i >= 0 {
+		return 1 + bytes.Count(data[:i], []byte("\n")), true
+	}
+	first, _, _ := bytes.Cut(data, []byte("\n"))
+	if !utf8.Valid(first) {
+		return 1, true
+	}
+	return 0, false
 }
 
 // detectSeparator applies the documented rule to the first line: the more
@@ -316,12 +347,12 @@ func (c *cellReader) num(name string) (v float64, ok bool) {
 		t = strings.Replace(t, ",", ".", 1)
 	}
 	if !plainNumber.MatchString(t) {
-		c.fail(name, fmt.Errorf("%w: %q", ErrNotNumber, c.text(name)))
+		c.fail(name, fmt.Errorf("%w: %s", ErrNotNumber, Quote(c.text(name))))
 		return 0, false
 	}
 	v, err := strconv.ParseFloat(t, 64)
 	if err != nil || math.IsInf(v, 0) {
-		c.fail(name, fmt.Errorf("%w: %q", ErrNotNumber, c.text(name)))
+		c.fail(name, fmt.Errorf("%w: %s", ErrNotNumber, Quote(c.text(name))))
 		return 0, false
 	}
 	return v, true
@@ -424,7 +455,7 @@ func (s *Sheet) parseRecord(cr *csv.Reader, cols []string, colIndex, cellIndex m
 	case "grid":
 		row.BearingRef = RefGrid
 	default:
-		c.fail(ColBearingRef, fmt.Errorf("%w: %q", ErrUnknownRef, c.text(ColBearingRef)))
+		c.fail(ColBearingRef, fmt.Errorf("%w: %s", ErrUnknownRef, Quote(c.text(ColBearingRef))))
 	}
 	// Uncertainties must be positive: a zero would give the measurement
 	// infinite weight downstream.
@@ -457,7 +488,7 @@ func (s *Sheet) parseRecord(cr *csv.Reader, cols []string, colIndex, cellIndex m
 	if t := c.text(ColTime); t != "" {
 		tm, err := parseTime(t)
 		if err != nil {
-			c.fail(ColTime, fmt.Errorf("%w: %q", ErrBadTime, t))
+			c.fail(ColTime, fmt.Errorf("%w: %s", ErrBadTime, Quote(t)))
 		} else {
 			row.Time = tm
 		}

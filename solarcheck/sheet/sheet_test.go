@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"errors"
 	"math"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -109,10 +110,16 @@ func TestParseHeader(t *testing.T) {
 		want   string
 		rows   int
 	}{
-		{"package doc: unknown column reported, rows kept", "photo,colour,sun_azimuth\nx.jpg,red,100\n", ErrUnknownColumn, "h.csv:1:2 (colour)", 1},
+		{"package doc: unknown column reported, rows kept", "photo,colour,sun_azimuth\nx.jpg,red,100\n", ErrUnknownColumn, `h.csv:1:2: unknown column (ignored): "colour"`, 1},
 		{"package doc: repeated column", "photo,sun_azimuth,SUN_AZIMUTH\nx.jpg,100,200\n", ErrDuplicateColumn, "h.csv:1:3 (SUN_AZIMUTH)", 1},
 		{"package doc: photo column required", "object,sun_azimuth\np,100\n", ErrMissing, "h.csv:1:", 0},
 		{"empty file", "", ErrNoHeader, "h.csv:1:", 0},
+		// The first bytes of any JFIF file (JPEG File Interchange Format
+		// 1.02: SOI, APP0 marker, length 16, "JFIF\0"): a photo given as
+		// the sheet.
+		{"a photo given as the sheet", "\xff\xd8\xff\xe0\x00\x10JFIF\x00\x01\x01", ErrNotText, "h.csv:1: not a text file", 0},
+		{"NUL further down", "photo,sun_azimuth\nx.jpg,100\ny.jpg\x00,100\n", ErrNotText, "h.csv:3: not a text file", 0},
+		{"Latin-1 header", "photo,not\xe9\n", ErrNotText, "h.csv:1: not a text file", 0},
 	}
 	for _, c := range cases {
 		s, err := Parse(strings.NewReader(c.src), "h.csv")
@@ -120,6 +127,34 @@ func TestParseHeader(t *testing.T) {
 		if !errors.Is(err, c.kind) || !errors.As(err, &pe) || !strings.HasPrefix(pe.Error(), c.want) || len(s.Rows) != c.rows {
 			t.Errorf("%s: err %v rows %d", c.source, err, len(s.Rows))
 		}
+		// Every header problem that leaves no rows makes the sheet unusable;
+		// one that keeps rows does not.
+		if (s.Unusable != nil) != (c.rows == 0) {
+			t.Errorf("%s: Unusable = %v with %d rows", c.source, s.Unusable, len(s.Rows))
+		}
+	}
+}
+
+func TestQuote(t *testing.T) {
+	long := strings.Repeat("ab", 100)
+	cases := []struct {
+		source, cell, want string
+	}{
+		{"plain cell: strconv.Quote", "abc", `"abc"`},
+		{"control and invalid bytes escaped", "a\x1b[31m\xff", `"a\x1b[31m\xff"`},
+		{"cut after 40 characters", long, strconv.Quote(long[:40]) + "…"},
+		{"40 characters: not cut", long[:40], strconv.Quote(long[:40])},
+		{"characters, not bytes, are counted", strings.Repeat("é", 41), strconv.Quote(strings.Repeat("é", 40)) + "…"},
+	}
+	for _, c := range cases {
+		if got := Quote(c.cell); got != c.want {
+			t.Errorf("%s: Quote = %s, want %s", c.source, got, c.want)
+		}
+	}
+	// A message about a bad cell quotes it cut and escaped.
+	_, err := Parse(strings.NewReader("photo,sun_azimuth\nx.jpg,"+long+"\x01\n"), "q.csv")
+	if want := `q.csv:2:2 (sun_azimuth): not a number: ` + strconv.Quote(long[:40]) + "…"; err == nil || err.Error() != want {
+		t.Errorf("bad cell message %v, want %s", err, want)
 	}
 }
 
@@ -158,15 +193,27 @@ func TestSemicolonAndDecimalComma(t *testing.T) {
 	}
 }
 
+// names gives each relative path an ID under the input label in.
+func names(in string, rels ...string) []Name {
+	out := make([]Name, len(rels))
+	for i, r := range rels {
+		out[i] = Name{ID: in + "/" + r, Rel: r}
+	}
+	return out
+}
+
 func TestResolve(t *testing.T) {
-	paths := []string{"day1/IMG_0001.jpg", "day2/IMG_0001.jpg", "day2/IMG_0002.jpg", "top.jpg"}
+	paths := append(names("card1", "day1/IMG_0001.jpg", "day2/IMG_0001.jpg", "day2/IMG_0002.jpg", "top.jpg", "DCIM/IMG_7.JPG"),
+		names("card2", "DCIM/IMG_7.JPG")...)
 	src := "photo,sun_azimuth\n" +
 		"day1/IMG_0001.jpg,10\n" + // line 2 exact
 		"IMG_0002.jpg,20\n" + // line 3 unique base
 		"IMG_0001.jpg,30\n" + // line 4 ambiguous
 		"nope.jpg,40\n" + // line 5 unknown
 		".\\day2\\IMG_0001.jpg,50\n" + // line 6 Windows-style relative path
-		"day3/top.jpg,60\n" // line 7 path that does not exist
+		"day3/top.jpg,60\n" + // line 7 path that does not exist
+		"DCIM/IMG_7.JPG,70\n" + // line 8 the same relative path under two inputs
+		"card2/DCIM/IMG_7.JPG,80\n" // line 9 named by ID: card2's only
 	s, err := Parse(strings.NewReader(src), "r.csv")
 	if err != nil {
 		t.Fatal(err)
@@ -174,21 +221,30 @@ func TestResolve(t *testing.T) {
 	got, err := s.Resolve(paths)
 	cases := []struct {
 		source string
-		path   string
+		id     string
 		n      int
 	}{
-		{"exact relative path", "day1/IMG_0001.jpg", 1},
-		{"unique bare name", "day2/IMG_0002.jpg", 1},
-		{"backslashes and ./ cleaned", "day2/IMG_0001.jpg", 1},
-		{"no match", "top.jpg", 0},
+		{"exact relative path", "card1/day1/IMG_0001.jpg", 1},
+		{"unique bare name", "card1/day2/IMG_0002.jpg", 1},
+		{"backslashes and ./ cleaned", "card1/day2/IMG_0001.jpg", 1},
+		{"no match", "card1/top.jpg", 0},
+		{"ambiguous relative path applied to neither", "card1/DCIM/IMG_7.JPG", 0},
+		{"ID names one photo", "card2/DCIM/IMG_7.JPG", 1},
 	}
 	for _, c := range cases {
-		if len(got[c.path]) != c.n {
-			t.Errorf("%s: %s has %d rows, want %d", c.source, c.path, len(got[c.path]), c.n)
+		if len(got[c.id]) != c.n {
+			t.Errorf("%s: %s has %d rows, want %d", c.source, c.id, len(got[c.id]), c.n)
 		}
 	}
+	if r := got["card2/DCIM/IMG_7.JPG"]; len(r) == 1 && *r[0].SunAzimuthDeg != 80 {
+		t.Errorf("card2's photo got the row of line %d, want line 9", r[0].Line)
+	}
 	msgs := err.Error()
-	for _, want := range []string{"r.csv:4:1 (photo): file name matches several photos", "r.csv:5:1 (photo): no photo", "r.csv:7:1 (photo): no photo"} {
+	for _, want := range []string{
+		"r.csv:4:1 (photo): names several photos",
+		"r.csv:5:1 (photo): no photo", "r.csv:7:1 (photo): no photo",
+		`r.csv:8:1 (photo): names several photos; write the photo as the sheet template names it: "DCIM/IMG_7.JPG" matches card1/DCIM/IMG_7.JPG, card2/DCIM/IMG_7.JPG; the row is applied to none`,
+	} {
 		if !strings.Contains(msgs, want) {
 			t.Errorf("missing %q in %s", want, msgs)
 		}
@@ -202,8 +258,9 @@ func TestWriteTemplate(t *testing.T) {
 	lat, lon := 48.8584, 2.2945
 	var buf bytes.Buffer
 	err := WriteTemplate(&buf, []TemplateRow{
-		{Photo: "a,b.jpg", ClaimedLocal: "2026-05-03 14:22:05", Lat: &lat, Lon: &lon},
+		{Photo: "a,b.jpg", ClaimedLocal: "2026-05-03 14:22:05", ClaimTag: "DateTimeOriginal", Lat: &lat, Lon: &lon},
 		{Photo: "=HYPERLINK(1).jpg"},
+		{Photo: "c.jpg", ClaimedLocal: "2026-05-04 09:00:00", ClaimTag: "DateTime"},
 	})
 	if err != nil {
 		t.Fatal(err)
@@ -215,8 +272,9 @@ func TestWriteTemplate(t *testing.T) {
 		want   string
 	}{
 		{"binding header", lines[0], strings.Join(Columns(), ",")},
-		{"RFC 4180 §2 rule 6: field with comma quoted", lines[1], "\"a,b.jpg\",,,,,,,,,,,,,,,,claimed 2026-05-03 14:22:05 (camera clock) at 48.858400 2.294500 (GPS tag)"},
-		{"OWASP CSV injection: leading = neutralised", lines[2], "'=HYPERLINK(1).jpg,,,,,,,,,,,,,,,,no time in metadata no GPS position"},
+		{"RFC 4180 §2 rule 6: field with comma quoted", lines[1], "\"a,b.jpg\",,,,,,,,,,,,,,,,camera clock says 2026-05-03 14:22:05; GPS says lat 48.8584 lon 2.2945"},
+		{"OWASP CSV injection: leading = neutralised", lines[2], "'=HYPERLINK(1).jpg,,,,,,,,,,,,,,,,no capture time in the file; no GPS position: give lat/lon"},
+		{"EXIF 2.32 DateTime is the file's change time, said so", lines[3], "c.jpg,,,,,,,,,,,,,,,,the file's DateTime tag (when the file was last changed: maybe an edit) says 2026-05-04 09:00:00; no GPS position: give lat/lon"},
 	}
 	for _, c := range cases {
 		if c.got != c.want {
@@ -277,8 +335,8 @@ func TestResolveConflictingOverrides(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	got, err := s.Resolve([]string{"dir/a.jpg"})
-	if n := len(got["dir/a.jpg"]); n != 4 {
+	got, err := s.Resolve(names("in", "dir/a.jpg"))
+	if n := len(got["in/dir/a.jpg"]); n != 4 {
 		t.Errorf("kept %d rows, want 4", n)
 	}
 	for _, want := range []string{"o.csv:4:3 (lat): override differs", "o.csv:7:5 (time): override differs"} {

@@ -11,9 +11,14 @@ import (
 // TemplateRow is what the template says about one photo before the
 // examiner measures anything.
 type TemplateRow struct {
-	Photo        string   // path relative to the audited folder, slash form
-	ClaimedLocal string   // the wall time as the camera wrote it, e.g. "2026-05-03 14:22:05"
-	Lat, Lon     *float64 // the GPS tag's position, nil when the photo has none
+	// Photo names the photo so that no two photos of the audit share it:
+	// its input's label, then its path inside the input, slash form.
+	Photo string
+	// ClaimedLocal is the capture time as the camera wrote it, e.g.
+	// "2026-05-03 14:22:05", "" when the file holds none; ClaimTag is the
+	// tag it comes from (exifread.Record.CaptureTime).
+	ClaimedLocal, ClaimTag string
+	Lat, Lon               *float64 // the GPS tag's position, nil when the photo has none
 }
 
 // formulaStarts are the first characters that make a spreadsheet treat a
@@ -65,17 +70,31 @@ func WriteTemplate(w io.Writer, rows []TemplateRow) error {
 	return nil
 }
 
+// templateNote says, as a person would, what the file claims and what the
+// examiner must supply: "camera clock says 2025-01-10 11:00:00; no GPS
+// position: give lat/lon".
 func templateNote(r TemplateRow) string {
-	var parts []string
-	if r.ClaimedLocal != "" {
-		parts = append(parts, "claimed "+r.ClaimedLocal+" (camera clock)")
-	} else {
-		parts = append(parts, "no time in metadata")
+	var when, where string
+	switch {
+	case r.ClaimedLocal == "":
+		when = "no capture time in the file"
+	case r.ClaimTag == "DateTime":
+		when = "the file's DateTime tag (when the file was last changed: maybe an edit) says " + r.ClaimedLocal
+	default:
+		when = "camera clock says " + r.ClaimedLocal
 	}
 	if r.Lat != nil && r.Lon != nil {
-		parts = append(parts, "at "+strconv.FormatFloat(*r.Lat, 'f', 6, 64)+" "+strconv.FormatFloat(*r.Lon, 'f', 6, 64)+" (GPS tag)")
+		where = "GPS says lat " + coord(*r.Lat) + " lon " + coord(*r.Lon)
 	} else {
-		parts = append(parts, "no GPS position")
+		where = "no GPS position: give lat/lon"
 	}
-	return strings.Join(parts, " ")
+	return when + "; " + where
+}
+
+// coord writes a coordinate to six decimals (about 0.1 m), without the
+// trailing zeros, so 9.19 is not shown as 9.190000.
+func coord(deg float64) string {
+	s := strconv.FormatFloat(deg, 'f', 6, 64)
+	s = strings.TrimRight(s, "0")
+	return strings.TrimSuffix(s, ".")
 }
