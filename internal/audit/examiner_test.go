@@ -24,7 +24,7 @@ func TestExaminerInput(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	rows, err := s.Resolve([]string{"a.jpg", "b.jpg"})
+	rows, err := s.Resolve([]sheet.Name{{ID: "a.jpg", Rel: "a.jpg"}, {ID: "b.jpg", Rel: "b.jpg"}})
 	if err != nil {
 		t.Fatal(err)
 	}
