@@ -4,6 +4,7 @@ import (
 	"encoding/csv"
 	"errors"
 	"fmt"
+	"github.com/gnomon-forensics/gnomon/internal/figure"
 	"io"
 	"slices"
 	"strconv"
@@ -127,9 +128,11 @@ func checksCell(cs []Check) string {
 		var b strings.Builder
 		b.WriteString(c.Kind + "=" + c.Status)
 		if c.Figure != nil {
-			b.WriteString("(" + strconv.FormatFloat(*c.Figure, 'g', 6, 64))
+			// Rounded by the rule of the HTML card (package figure).
 			if c.Uncertainty != nil {
-				b.WriteString("±" + strconv.FormatFloat(*c.Uncertainty, 'g', 4, 64))
+				b.WriteString("(" + figure.Decimal(*c.Figure, *c.Uncertainty, 2) + "±" + figure.Uncertainty(*c.Uncertainty))
+			} else {
+				b.WriteString("(" + figure.Decimal(*c.Figure, 0, 2))
 			}
 			if c.Unit != "" {
 				b.WriteString(" " + c.Unit)

@@ -94,7 +94,7 @@ func TestCSVHostile(t *testing.T) {
 		{"market/DSC_2001.NEF", "offset_s", "-7200", "negative offset stays numeric"},
 		{"market/DSC_2001.NEF", "offset_low_s", "-7390", "negative offset stays numeric"},
 		{"quay/IMG_0101.JPG", "lat", "43.21", "numbers in shortest exact form (strconv)"},
-		{"quay/IMG_0101.JPG", "checks", "shadow=agrees(-12±145 s); gps_clock=agrees(1±1 s)", "checks column format (package doc)"},
+		{"quay/IMG_0101.JPG", "checks", "shadow=agrees(-10±150 s); gps_clock=agrees(1.0±1.0 s)", "checks column format (package doc); figures by GUM §7.2.6 (uncertainty to two significant digits, value to the same place)"},
 		{hostScript, "claimed_local", "'" + hostFormula, "formula from EXIF neutralised"},
 		{hostScript, "file_notes", "extension .jpg suggests jpeg but the bytes are png; " + hostFormula2 + "; " + hostInvalid, "notes joined; a formula after the first note cannot start the cell"},
 		{hostScript, "camera", hostImg, "markup is plain text in CSV"},

@@ -65,7 +65,11 @@ func Round(x, step float64) float64 {
 // Number formats x rounded to the step its uncertainty u supports, with a
 // true minus sign: Number(2248.46, 37) is "2248", Number(0.1234, 0.021) is
 // "0.123". When u gives no step, def decimals are used.
-func Number(x, u float64, def int) string {
+func Number(x, u float64, def int) string { return sign(Decimal(x, u, def)) }
+
+// Decimal is Number with an ASCII hyphen-minus, for machine-readable text
+// (report.csv).
+func Decimal(x, u float64, def int) string {
 	if s, ok := nonFinite(x); ok {
 		return s
 	}
@@ -75,7 +79,11 @@ func Number(x, u float64, def int) string {
 		d = Decimals(step)
 		x = Round(x, step)
 	}
-	return sign(strconv.FormatFloat(x, 'f', d, 64))
+	s := strconv.FormatFloat(x, 'f', d, 64)
+	if strings.HasPrefix(s, "-") && strings.Trim(s[1:], "0.") == "" {
+		s = s[1:] // -0 is 0
+	}
+	return s
 }
 
 // Uncertainty formats u with two significant digits (GUM §7.2.6):
