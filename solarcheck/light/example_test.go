@@ -18,7 +18,7 @@ func ExampleCheck() {
 	fmt.Println(r.Sentence)
 	// Output:
 	// disagree nautical twilight / daylight
-	// Hint, not proof: the exposure (EV100 14.9) implies about 66000 lux, 18 stops more than natural light gives with the sun at -9.0° (nautical twilight, clear sky about 0.12 lux); artificial light, a camera at the end of its exposure range, or a different time of day could explain it.
+	// Hint, not proof: the exposure (1/250 s at f/11, ISO 100: EV100 14.9) implies about 66000 lux, 18 stops above the brightest moonlit sky (about 0.30 lux; the sun at -9.0°, nautical twilight, gives about 0.12 lux); artificial light, a camera at the end of its exposure range, or a different time of day could explain it.
 }
 
 func ExampleEV100() {

@@ -38,8 +38,11 @@
 package light
 
 import (
+	"strconv"
+
 	"errors"
 	"fmt"
+	"github.com/gnomon-forensics/gnomon/internal/figure"
 	"math"
 )
 
@@ -275,19 +278,28 @@ func Check(in Input, opt Options) Result {
 		r.OffEV = math.Log2(r.ImpliedLux / lo)
 	}
 	altText := fmt.Sprintf("%.1f°", alt)
+	// The sentence names the figure the ratio was tested against: the
+	// brightest natural light (a clear sky, or the full moon when that is
+	// brighter) above, dark overcast below.
+	settings := fmt.Sprintf("%s at f/%s, ISO %s: EV100 %.1f", figure.Exposure(in.Exposure.ExposureTimeSec),
+		strconv.FormatFloat(in.Exposure.FNumber, 'f', -1, 64), strconv.FormatFloat(in.Exposure.ISO, 'f', -1, 64), ev)
+	brightest := fmt.Sprintf("a clear sky with the sun at %s (%s, about %s)", altText, r.Band, luxText(r.ExpectedLuxClear))
+	if opt.MoonLux > r.ExpectedLuxClear {
+		brightest = fmt.Sprintf("the brightest moonlit sky (about %s; the sun at %s, %s, gives about %s)", luxText(opt.MoonLux), altText, r.Band, luxText(r.ExpectedLuxClear))
+	}
 	switch {
 	case r.OffEV > 0:
 		r.Status = Disagree
-		r.Sentence = fmt.Sprintf("Hint, not proof: the exposure (EV100 %.1f) implies about %s, %.0f stops more than natural light gives with the sun at %s (%s, clear sky about %s); artificial light, a camera at the end of its exposure range, or a different time of day could explain it.",
-			ev, luxText(r.ImpliedLux), r.OffEV, altText, r.Band, luxText(r.ExpectedLuxClear))
+		r.Sentence = fmt.Sprintf("Hint, not proof: the exposure (%s) implies about %s, %.0f stops above %s; artificial light, a camera at the end of its exposure range, or a different time of day could explain it.",
+			settings, luxText(r.ImpliedLux), r.OffEV, brightest)
 	case r.OffEV < 0:
 		r.Status = Disagree
-		r.Sentence = fmt.Sprintf("Hint, not proof: the exposure (EV100 %.1f) implies about %s, %.0f stops less than even dark overcast gives with the sun at %s (%s, clear sky about %s); an indoor or shaded scene, or a different time of day could explain it.",
-			ev, luxText(r.ImpliedLux), -r.OffEV, altText, r.Band, luxText(r.ExpectedLuxClear))
+		r.Sentence = fmt.Sprintf("Hint, not proof: the exposure (%s) implies about %s, %.0f stops below dark overcast with the sun at %s (%s, about %s); an indoor or shaded scene, or a different time of day could explain it.",
+			settings, luxText(r.ImpliedLux), -r.OffEV, altText, r.Band, luxText(r.ExpectedLuxOvercast))
 	default:
 		r.Status = Agree
-		r.Sentence = fmt.Sprintf("Hint, not proof: the exposure (EV100 %.1f, about %s) fits the natural light expected with the sun at %s (%s, clear sky about %s) within %.0f stops.",
-			ev, luxText(r.ImpliedLux), altText, r.Band, luxText(r.ExpectedLuxClear), opt.ToleranceEV)
+		r.Sentence = fmt.Sprintf("Hint, not proof: the exposure (%s, about %s) fits the natural light expected with the sun at %s (%s, clear sky about %s) within %.0f stops.",
+			settings, luxText(r.ImpliedLux), altText, r.Band, luxText(r.ExpectedLuxClear), opt.ToleranceEV)
 	}
 	return r
 }

@@ -1,6 +1,7 @@
 package light
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -157,7 +158,7 @@ func TestCheck(t *testing.T) {
 	}{
 		{"common knowledge: sunny 16 with the sun 55° up", Input{sunny16, FlashNotFired, deg(55)}, Agree, Daylight, "fits"},
 		{"common knowledge: overcast EV 12 with the sun 40° up (overcast ÷3…10)", Input{Exposure{FNumber: 5.6, ExposureTimeSec: 1.0 / 125, ISO: 100}, FlashNotFired, deg(40)}, Agree, Daylight, "fits"},
-		{"common knowledge: full sun exposure claimed at night", Input{sunny16, FlashNotFired, deg(-30)}, Disagree, Daylight, "more than natural light"},
+		{"common knowledge: full sun exposure claimed at night", Input{sunny16, FlashNotFired, deg(-30)}, Disagree, Daylight, "stops above the brightest moonlit sky"},
 		{"common knowledge: bright interior ≈ EV 7 with the sun high", Input{Exposure{FNumber: 2, ExposureTimeSec: 1.0 / 30, ISO: 100}, FlashUnknown, deg(50)}, Disagree, Civil, "indoor"},
 		{"common knowledge: dusk street scene f/1.8 1/15 s ISO 1600 (EV100 ≈ 1.6) in civil twilight", Input{Exposure{FNumber: 1.8, ExposureTimeSec: 1.0 / 15, ISO: 1600}, FlashNotFired, deg(-4)}, Agree, Civil, "fits"},
 		{"skipped: flash fired", Input{sunny16, FlashFired, deg(-30)}, Skipped, Unknown, "flash"},
@@ -172,6 +173,45 @@ func TestCheck(t *testing.T) {
 		if r.Status != Skipped && !strings.HasPrefix(r.Sentence, "Hint, not proof") {
 			t.Errorf("%s: sentence must be worded as a hint: %q", c.source, r.Sentence)
 		}
+	}
+}
+
+// TestCheckStatesTheRatioItTested: the stops a sentence states are the
+// ratio of the implied light to the figure the sentence names (issue 10:
+// "18 stops more than natural light … clear sky about 0.12 lux" was a ratio
+// to the full moon, 0.3 lux, not to the 0.12 lux it showed). The witness is
+// the arithmetic log2(implied / named figure) on the sentence's own numbers.
+func TestCheckStatesTheRatioItTested(t *testing.T) {
+	sunny16 := Exposure{FNumber: 16, ExposureTimeSec: 1.0 / 200, ISO: 200}
+	cases := []struct {
+		source string
+		alt    float64
+		named  string // the words naming the reference
+		ref    func(Result) float64
+	}{
+		{"night: the full moon (0.3 lux, default MoonLux) is brighter than the sky", -9, "stops above the brightest moonlit sky (about 0.30 lux",
+			func(Result) float64 { return 0.3 }},
+		{"day: a clear sky is the brightest natural light", 20, "stops above a clear sky with the sun at 20.0°",
+			func(r Result) float64 { return r.ExpectedLuxClear }},
+	}
+	for _, c := range cases {
+		in := Input{sunny16, FlashNotFired, deg(c.alt)}
+		if c.alt > 0 {
+			in.Exposure.ExposureTimeSec = 1.0 / 64000 // far brighter than any sky
+		}
+		r := Check(in, Options{})
+		if !strings.Contains(r.Sentence, c.named) {
+			t.Errorf("%s: sentence does not name its reference %q: %q", c.source, c.named, r.Sentence)
+			continue
+		}
+		want := math.Round(math.Log2(r.ImpliedLux / c.ref(r)))
+		if !strings.Contains(r.Sentence, fmt.Sprintf(", %.0f stops above", want)) {
+			t.Errorf("%s: want %.0f stops (log2 of %.3g / %.3g): %q", c.source, want, r.ImpliedLux, c.ref(r), r.Sentence)
+		}
+	}
+	// The settings are shown as photographers write them.
+	if r := Check(Input{sunny16, FlashNotFired, deg(55)}, Options{}); !strings.Contains(r.Sentence, "1/200 s at f/16, ISO 200") {
+		t.Errorf("settings not shown as 1/200 s at f/16, ISO 200: %q", r.Sentence)
 	}
 }
 
