@@ -211,8 +211,10 @@ type clockChart struct {
 	YTicks           []labelAt
 	XTicks           []labelAt
 	Zero             string // y of the zero line, "" when out of range
-	Line             string
-	Points           []clockPoint
+	Line             string // the fitted clock of each segment, one path
+	// Breaks are the x of each clock reset between two plotted segments.
+	Breaks []string
+	Points []clockPoint
 }
 
 type cameraView struct {
@@ -226,6 +228,7 @@ func buildClock(c Camera) cameraView {
 		off, lo, hi   float64
 		outlier       bool
 		path, claimed string
+		seg           int
 	}
 	var pts []pv
 	for _, q := range c.Points {
@@ -233,7 +236,7 @@ func buildClock(c Camera) cameraView {
 		if !ok || !finite(q.OffsetS, q.LowS, q.HighS) {
 			continue
 		}
-		pts = append(pts, pv{t, q.OffsetS, min(q.LowS, q.HighS, q.OffsetS), max(q.LowS, q.HighS, q.OffsetS), q.Outlier, q.Path, q.ClaimedUTC})
+		pts = append(pts, pv{t, q.OffsetS, min(q.LowS, q.HighS, q.OffsetS), max(q.LowS, q.HighS, q.OffsetS), q.Outlier, q.Path, q.ClaimedUTC, q.Segment})
 	}
 	if len(pts) == 0 {
 		return cameraView{C: c}
@@ -244,26 +247,63 @@ func buildClock(c Camera) cameraView {
 		mid := t0.Add(t1.Sub(t0) / 2)
 		t0, t1 = mid.Add(-minClockSpan/2), mid.Add(minClockSpan/2)
 	}
-	// The fitted line: OffsetS at OffsetAtUTC (or the median point), sloping by DriftSPerDay.
-	var line func(time.Time) float64
-	if c.OffsetS != nil && finite(*c.OffsetS) {
-		ref, ok := parseUTC(c.OffsetAtUTC)
-		if !ok {
-			ref = pts[len(pts)/2].t
+	// The fitted lines: each segment's OffsetS at its OffsetAtUTC, sloping
+	// by its drift (none when no drift is stated), drawn over the span of
+	// its own points. A report without segments draws the camera's line
+	// over every point.
+	type fitLine struct {
+		from, to time.Time
+		at       func(time.Time) float64
+	}
+	lineOf := func(offset, drift *float64, at string, ref time.Time) func(time.Time) float64 {
+		if offset == nil || !finite(*offset) {
+			return nil
 		}
-		drift := 0.0
-		if c.DriftSPerDay != nil && finite(*c.DriftSPerDay) {
-			drift = *c.DriftSPerDay
+		if r, ok := parseUTC(at); ok {
+			ref = r
 		}
-		off := *c.OffsetS
-		line = func(t time.Time) float64 { return off + drift*t.Sub(ref).Seconds()/secondsPerDay }
+		d := 0.0
+		if drift != nil && finite(*drift) {
+			d = *drift
+		}
+		off := *offset
+		return func(t time.Time) float64 { return off + d*t.Sub(ref).Seconds()/secondsPerDay }
+	}
+	var lines []fitLine
+	var breaks []time.Time
+	if len(c.Segments) == 0 {
+		if f := lineOf(c.OffsetS, c.DriftSPerDay, c.OffsetAtUTC, pts[len(pts)/2].t); f != nil {
+			lines = append(lines, fitLine{t0, t1, f})
+		}
+	}
+	prevLast := -1
+	for k, sg := range c.Segments {
+		first, last := -1, -1
+		for i, q := range pts {
+			if q.seg == k {
+				if first < 0 {
+					first = i
+				}
+				last = i
+			}
+		}
+		if first < 0 {
+			continue
+		}
+		if f := lineOf(sg.OffsetS, sg.DriftSPerDay, sg.OffsetAtUTC, pts[first].t); f != nil {
+			lines = append(lines, fitLine{pts[first].t, pts[last].t, f})
+		}
+		if prevLast >= 0 {
+			breaks = append(breaks, pts[prevLast].t.Add(pts[first].t.Sub(pts[prevLast].t)/2))
+		}
+		prevLast = last
 	}
 	lo, hi := pts[0].lo, pts[0].hi
 	for _, q := range pts {
 		lo, hi = min(lo, q.lo), max(hi, q.hi)
 	}
-	if line != nil {
-		lo, hi = min(lo, line(t0), line(t1)), max(hi, line(t0), line(t1))
+	for _, l := range lines {
+		lo, hi = min(lo, l.at(l.from), l.at(l.to)), max(hi, l.at(l.from), l.at(l.to))
 	}
 	step := niceStep(hi - lo)
 	lo, hi = math.Floor(lo/step)*step, math.Ceil(hi/step)*step
@@ -293,8 +333,18 @@ func buildClock(c Camera) cameraView {
 		}
 		ch.XTicks = append(ch.XTicks, l)
 	}
-	if line != nil {
-		ch.Line = fmt.Sprintf("M%s %sL%s %s", f1(xOf(t0)), f1(yOf(line(t0))), f1(xOf(t1)), f1(yOf(line(t1))))
+	for _, l := range lines {
+		x0, x1 := xOf(l.from), xOf(l.to)
+		if x1-x0 < 8 { // one point, or points close together: a short dash
+			x0, x1 = x0-4, x1+4
+		}
+		if ch.Line != "" {
+			ch.Line += " "
+		}
+		ch.Line += fmt.Sprintf("M%s %sL%s %s", f1(x0), f1(yOf(l.at(l.from))), f1(x1), f1(yOf(l.at(l.to))))
+	}
+	for _, b := range breaks {
+		ch.Breaks = append(ch.Breaks, f1(xOf(b)))
 	}
 	for _, q := range pts {
 		ch.Points = append(ch.Points, clockPoint{

@@ -156,26 +156,63 @@ type Fix struct {
 	RadiusKm float64 `json:"radius_km"`
 }
 
-// Camera is one camera's clock model across the batch.
+// Camera is one camera's clock model across the batch. The model is of the
+// clock, in its own time scale: OffsetS is the clock's error against the
+// zone it is set to (ClockZone), or against UTC when that is undecided. The
+// top-level figures are those of the segment with the most evidence;
+// Segments holds every segment between resets.
 type Camera struct {
-	ID           string   `json:"id"`
-	Photos       int      `json:"photos"`
-	OffsetS      *float64 `json:"offset_s"`
-	OffsetSDs    *float64 `json:"offset_sd_s"`
-	DriftSPerDay *float64 `json:"drift_s_per_day"`
-	DriftPPM     *float64 `json:"drift_ppm"`
+	ID          string   `json:"id"`
+	Photos      int      `json:"photos"`
+	ClockZone   string   `json:"clock_zone"` // "UTC+01:00", or "its offset tags"; "" when the witnesses do not decide it
+	OffsetS     *float64 `json:"offset_s"`
+	OffsetLowS  *float64 `json:"offset_low_s"` // 95 % interval of OffsetS
+	OffsetHighS *float64 `json:"offset_high_s"`
+	OffsetSDs   *float64 `json:"offset_sd_s"`
+	// DriftSPerDay and its 95 % interval are nil when no drift can be
+	// stated (too few witnessed photos, or too short a span); DriftNote
+	// then says why.
+	DriftSPerDay     *float64 `json:"drift_s_per_day"`
+	DriftLowSPerDay  *float64 `json:"drift_low_s_per_day"`
+	DriftHighSPerDay *float64 `json:"drift_high_s_per_day"`
+	DriftPPM         *float64 `json:"drift_ppm"`
+	DriftNote        string   `json:"drift_note"`
 	// OffsetAtUTC is the RFC 3339 moment at which OffsetS holds, so the
 	// fitted clock line is OffsetS + DriftSPerDay × (t − OffsetAtUTC) / 1 day.
 	// "" means the median ClaimedUTC of Points (the HTML chart falls back to it).
-	OffsetAtUTC string       `json:"offset_at_utc"`
-	Outliers    []string     `json:"outliers"` // photo paths that disagree with the model
-	Resets      []string     `json:"resets"`   // photo paths where the clock appears to have been reset
+	OffsetAtUTC string         `json:"offset_at_utc"`
+	Segments    []ClockSegment `json:"segments"`
+	Outliers    []string       `json:"outliers"` // photo paths that disagree with the model
+	// Resets are the first photo after each clock reset (a step in the
+	// clock, or a fall-back to a factory date), and ResetNotes say, in the
+	// same order, what happened there.
+	Resets      []string     `json:"resets"`
+	ResetNotes  []string     `json:"reset_notes"`
 	OrderBreaks []string     `json:"order_breaks"`
 	Points      []ClockPoint `json:"points"`
 	Note        string       `json:"note"`
 }
 
-// ClockPoint is one photo's measured offset on a camera's clock chart.
+// ClockSegment is the clock between two resets, with the same fields as
+// Camera's top-level figures. From and To are the clock's times (as UTC in
+// the zone it is set to) of its first and last witnessed photo.
+type ClockSegment struct {
+	From             string   `json:"from_utc"`
+	To               string   `json:"to_utc"`
+	Photos           int      `json:"photos_witnessed"`
+	ClockZone        string   `json:"clock_zone"`
+	OffsetS          *float64 `json:"offset_s"`
+	OffsetLowS       *float64 `json:"offset_low_s"`
+	OffsetHighS      *float64 `json:"offset_high_s"`
+	OffsetAtUTC      string   `json:"offset_at_utc"`
+	DriftSPerDay     *float64 `json:"drift_s_per_day"`
+	DriftLowSPerDay  *float64 `json:"drift_low_s_per_day"`
+	DriftHighSPerDay *float64 `json:"drift_high_s_per_day"`
+	DriftNote        string   `json:"drift_note"`
+}
+
+// ClockPoint is one photo's measured offset on a camera's clock chart: the
+// clock's time (as UTC in the zone it is set to) and its error there.
 type ClockPoint struct {
 	Path       string  `json:"path"`
 	ClaimedUTC string  `json:"claimed_utc"`
@@ -183,4 +220,5 @@ type ClockPoint struct {
 	LowS       float64 `json:"low_s"`
 	HighS      float64 `json:"high_s"`
 	Outlier    bool    `json:"outlier"`
+	Segment    int     `json:"segment"` // index into Camera.Segments
 }

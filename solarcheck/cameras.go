@@ -14,29 +14,60 @@ import (
 // few numbers, not the whole finding, so that a batch of any size can be
 // modelled while its findings wait on disk (internal/audit spools them).
 type ClockInput struct {
-	Path    string // the photo's Finding.Path
-	Camera  string // Finding.Camera
-	Claimed time.Time
-	// Offset is the photo's own time evidence (claimed minus evidence), if
-	// HasEvidence; photos without keep their place in the order checks.
+	Path   string // the photo's Finding.Path
+	Camera string // Finding.Camera
+	// Reading is what the clock showed: the capture time's digits,
+	// labelled UTC (see clock.Point). Instants are the instants the claim
+	// stands for, the one used first.
+	Reading  time.Time
+	Instants []time.Time
+	// Zones are the UTC offsets (seconds) the clock may be set to, by this
+	// photo: the offset its claim was read with, and the place's.
+	Zones []int
+	// Tagged says the capture time carried its offset tag: the clock named
+	// the zone it showed, so Reading is already UTC (a phone that follows
+	// the place's legal time keeps one clock across a daylight-saving
+	// change or a journey).
+	Tagged bool
+	// Offset is the photo's own time evidence in the clock's scale (the
+	// reading minus the evidence's instant), if HasEvidence; photos
+	// without keep their place in the order checks.
 	Offset      Interval
 	HasEvidence bool
-	// StepSec and Verdict decide whether the evidence joins the fit: a
-	// photo that alone shows a step the rest of the camera does not share
-	// stays out of it.
-	StepSec float64
-	Verdict Verdict
 }
 
 // ClockInput returns what f's camera model needs of it; false when f names
 // no camera or claims no time, so it has no place in any camera's model.
-func (f *Finding) ClockInput() (ClockInput, bool) {
-	if f.Camera == "" || !f.HasClaimed {
+func (x *Examiner) ClockInput(f *Finding) (ClockInput, bool) {
+	if f.Camera == "" || !f.HasClaimed || f.Wall.IsZero() {
 		return ClockInput{}, false
 	}
-	in := ClockInput{Path: f.Path, Camera: f.Camera, Claimed: f.Claimed, StepSec: f.Basis.StepSec, Verdict: f.Verdict}
+	w := f.Wall
+	reading := time.Date(w.Year, w.Month, w.Day, w.Hour, w.Minute, w.Second, w.Nanosecond, time.UTC)
+	in := ClockInput{Path: f.Path, Camera: f.Camera, Instants: []time.Time{f.Claimed}}
+	if w.HasOffset {
+		// The clock says which zone it showed: its own scale is UTC.
+		reading = reading.Add(-time.Duration(w.OffsetSec) * time.Second)
+		in.Tagged = true
+	}
+	in.Reading = reading
+	// The offset the claim was read with: reading = claimed + offset.
+	claimOff := reading.Sub(f.Claimed).Seconds()
+	in.Zones = []int{int(claimOff)}
+	for _, c := range f.Claim.Candidates {
+		if !c.UTC.Equal(f.Claimed) {
+			in.Instants = append(in.Instants, c.UTC)
+		}
+	}
+	for _, z := range x.zoneOffsets(f, f.Claimed) {
+		if _, off := f.Claimed.In(z.loc).Zone(); !in.Tagged && off != in.Zones[0] {
+			in.Zones = append(in.Zones, off)
+		}
+	}
 	if hasTimeEvidence(f) {
-		in.Offset, in.HasEvidence = *f.Offset, true
+		o := *f.Offset
+		in.Offset = Interval{Sec: o.Sec + claimOff, LowSec: o.LowSec + claimOff, HighSec: o.HighSec + claimOff}
+		in.HasEvidence = true
 	}
 	return in, true
 }
@@ -44,42 +75,43 @@ func (f *Finding) ClockInput() (ClockInput, bool) {
 // Camera is one camera's clock across the batch.
 type Camera struct {
 	ID string
-	// Inputs are the camera's photos, sorted by claimed time; Model.Photos
-	// and InFit follow the same order.
+	// Inputs are the camera's photos, sorted by reading; Model.Photos
+	// follows the same order.
 	Inputs []ClockInput
 	// Model is the fitted clock; Fitted is false when no photo of the
-	// camera had a time witness (the model then holds only order checks).
+	// camera had a time witness (the model then holds only order checks
+	// and fall-backs to a factory date).
 	Model  clock.Model
 	Fitted bool
-	// StepSec is the step (zone, 12 h) shared by most of the camera's
-	// photos with evidence; 0 when its clock keeps the place's zone.
-	StepSec float64
-	// InFit says which inputs' evidence the fit used.
-	InFit []bool
-	Note  string
+	// Tagged is set when every photo carried its offset tag: the clock is
+	// then read in UTC, through the tags.
+	Tagged bool
+	Note   string
+	// breaks[k] are the order breaks whose later photo is Inputs[k].
+	breaks map[int32][]int
+	// resetAfter[k] is the reset that Inputs[k] is the first photo after.
+	resetAfter map[int32]int
 }
 
-// Cameras are the batch's fitted cameras, indexed so that each finding can
-// be given its camera's conclusions on its own (Apply), in any order.
+// Cameras are the batch's fitted cameras.
 type Cameras struct {
-	List []Camera // sorted by id
-	// of[j] locates the j-th input given to FitCameras in its camera's
-	// model; breaks[j] are the order breaks it is the later photo of.
-	// A slice, not a map keyed by path: it costs 8 bytes a photo.
-	of     []photoRef
-	breaks map[int][]int
+	List []*Camera // sorted by id
 }
 
-// photoRef locates a photo in its camera's model: indexes into List and
-// into that camera's Model.Photos (and Inputs).
-type photoRef struct{ camera, photo int32 }
+// CameraPhoto is one photo's place in its camera's model: FitCameras gives
+// one per input, and Apply takes it back with the photo's finding, so that
+// the caller hands over values and need not keep the inputs in any order.
+// The zero value stands for a photo with no camera model.
+type CameraPhoto struct {
+	cam *Camera
+	k   int32
+}
 
 // FitCameras fits every camera's clock from the time evidence of its photos
-// (see Finding.ClockInput). A photo with evidence joins its camera's fit
-// unless it shows a daylight-saving or 12-hour step the rest of the camera
-// does not share: such slips happen to single photos (a clock changed
-// after a battery swap, a change of season).
-func (x *Examiner) FitCameras(inputs []ClockInput) *Cameras {
+// (see Examiner.ClockInput), in the clock's own time scale: a camera
+// carried to another zone without changing its clock keeps one model. It
+// returns the cameras and, for inputs[j], its place in its camera's model.
+func (x *Examiner) FitCameras(inputs []ClockInput) (*Cameras, []CameraPhoto) {
 	byCam := map[string][]int{} // indexes into inputs
 	for j, in := range inputs {
 		byCam[in.Camera] = append(byCam[in.Camera], j)
@@ -90,24 +122,24 @@ func (x *Examiner) FitCameras(inputs []ClockInput) *Cameras {
 	}
 	sort.Strings(ids)
 
-	cs := &Cameras{of: make([]photoRef, len(inputs)), breaks: map[int][]int{}}
+	cs := &Cameras{}
+	refs := make([]CameraPhoto, len(inputs))
 	for _, id := range ids {
 		idx := byCam[id]
-		sort.SliceStable(idx, func(a, b int) bool { return inputs[idx[a]].Claimed.Before(inputs[idx[b]].Claimed) })
-		ins := make([]ClockInput, len(idx))
+		sort.SliceStable(idx, func(a, b int) bool { return inputs[idx[a]].Reading.Before(inputs[idx[b]].Reading) })
+		cam := &Camera{ID: id, Inputs: make([]ClockInput, len(idx)), breaks: map[int32][]int{}, resetAfter: map[int32]int{}}
+		pts := make([]clock.Point, len(idx))
+		cam.Tagged = true
 		for k, j := range idx {
-			ins[k] = inputs[j]
-			cs.of[j] = photoRef{camera: int32(len(cs.List)), photo: int32(k)}
-		}
-		cam := Camera{ID: id, Inputs: ins, StepSec: dominantStep(ins), InFit: make([]bool, len(ins))}
-		pts := make([]clock.Point, len(ins))
-		for k, in := range ins {
-			pts[k] = clock.Point{Key: in.Path, ClaimedUTC: in.Claimed, FileName: path.Base(in.Path)}
-			if in.HasEvidence && (in.StepSec == cam.StepSec || in.Verdict == ZoneSlip) {
+			in := inputs[j]
+			cam.Tagged = cam.Tagged && in.Tagged
+			cam.Inputs[k] = in
+			refs[j] = CameraPhoto{cam: cam, k: int32(k)}
+			pts[k] = clock.Point{Key: in.Path, Reading: in.Reading, Instants: in.Instants, Zones: in.Zones, FileName: path.Base(in.Path)}
+			if in.HasEvidence {
 				pts[k].HasEvidence = true
 				pts[k].OffsetSec = in.Offset.Sec
 				pts[k].HalfWidth95Sec = in.Offset.HalfWidth()
-				cam.InFit[k] = true
 			}
 		}
 		m, err := clock.Fit(pts, clock.Options{})
@@ -120,121 +152,167 @@ func (x *Examiner) FitCameras(inputs []ClockInput) *Cameras {
 		default:
 			cam.Fitted = true
 		}
-		if len(m.OrderBreaks) > 0 {
-			byPath := map[string]int{}
-			for _, j := range idx {
-				byPath[inputs[j].Path] = j
+		if len(m.OrderBreaks) > 0 || len(m.Resets) > 0 {
+			byKey := map[string]int32{}
+			for k, in := range cam.Inputs {
+				byKey[in.Path] = int32(k)
 			}
 			for b, ob := range m.OrderBreaks {
-				if j, ok := byPath[ob.Later]; ok {
-					cs.breaks[j] = append(cs.breaks[j], b)
+				if k, ok := byKey[ob.Later]; ok {
+					cam.breaks[k] = append(cam.breaks[k], b)
+				}
+			}
+			for r, rs := range m.Resets {
+				if k, ok := byKey[rs.After]; ok {
+					cam.resetAfter[k] = r
 				}
 			}
 		}
 		cs.List = append(cs.List, cam)
 	}
-	return cs
+	return cs, refs
 }
 
-// Apply writes f's camera's conclusions into f:
-//
-//   - a photo without a witness of its own gets the camera's corrected window;
-//   - a photo whose own witnesses are too wide to tell, but whose camera's
-//     clock is known to be off at that time, is judged on the camera's clock;
-//   - a photo that disagrees with its camera is flagged as a possible edit;
-//     one that alone shows a zone step is re-judged as a clock offset, since a
-//     zone setting belongs to the camera, not to one photo;
-//   - capture order that contradicts the file numbering is flagged.
-//
-// j is the index, in the slice given to FitCameras, of f's ClockInput. A
-// finding whose camera was not fitted keeps its verdict.
-func (x *Examiner) Apply(cs *Cameras, j int, f *Finding) {
-	ref := cs.of[j]
-	cam := &cs.List[ref.camera]
-	for _, b := range cs.breaks[j] {
+// Apply writes f's camera's conclusions into f. A photo's own witnesses
+// come first: the camera's model never changes the verdict of a photo that
+// has a time witness of its own; it adds the camera_clock check (agrees,
+// conflicts, or open when too few other photos share its clock) and, for a
+// photo that disagrees with its camera, says by how much. Only a photo
+// without a witness of its own is dated by its camera's model. Capture
+// order that contradicts the file numbering is flagged, and the first
+// photo after a clock reset says so.
+func (x *Examiner) Apply(p CameraPhoto, f *Finding) {
+	cam := p.cam
+	if cam == nil {
+		return
+	}
+	for _, b := range cam.breaks[p.k] {
 		ob := cam.Model.OrderBreaks[b]
 		f.check(Check{Kind: KindShotOrder, Status: Conflicts, Figure: float64(ob.LaterNumber), HasFigure: true, Unit: "file number",
 			Sentence: fmt.Sprintf("By its claimed time this photo (file number %d) comes after %s (file number %d): the camera's numbering says otherwise. One of the two times may have been changed, or the files renamed.", ob.LaterNumber, ob.Earlier, ob.EarlierNumber)})
 	}
-	if !cam.Fitted {
+	mp := cam.Model.Photos[p.k]
+	if r, ok := cam.resetAfter[p.k]; ok {
+		f.Explanation += " " + resetSentence(cam.Model.Resets[r])
+	}
+	if mp.Factory {
+		f.check(Check{Kind: KindCameraClock, Status: Conflicts,
+			Sentence: fmt.Sprintf("The camera's clock reads %s, just after a date cameras fall back to when their clock loses its setting: the clock had been reset, and this time is not when the photo was taken.", cam.Inputs[p.k].Reading.Format("2006-01-02 15:04"))})
+	}
+	if !cam.Fitted || mp.Segment < 0 {
 		return
 	}
-	p := cam.Model.Photos[ref.photo]
+	seg := cam.Model.Segments[mp.Segment]
 	switch {
-	case p.Outlier:
-		f.check(Check{Kind: KindCameraClock, Status: Conflicts, Figure: p.ResidualSec, HasFigure: true, Unit: "s",
-			Sentence: fmt.Sprintf("This photo's time disagrees with the other photos of its camera by %s beyond the camera's fitted clock: a possible edit of the timestamp, or a wrong measurement. A flag for review, not a finding of edit.", signedDuration(p.ResidualSec))})
-		if f.Verdict == ZoneSlip && f.Basis.StepSec != cam.StepSec {
+	case hasTimeEvidence(f) && mp.Others < clock.MinOthers:
+		f.check(Check{Kind: KindCameraClock, Status: Open,
+			Sentence: fmt.Sprintf("Only %s of this camera share its clock setting and have a time witness: too few to test this photo against.", otherPhotos(mp.Others))})
+	case hasTimeEvidence(f) && mp.Outlier:
+		f.check(Check{Kind: KindCameraClock, Status: Conflicts, Figure: mp.ResidualSec, HasFigure: true, Unit: "s",
+			Sentence: fmt.Sprintf("This photo's time differs from its camera's other %d photos with a time witness by %s, beyond the camera's fitted clock: a possible edit of the timestamp, or a wrong measurement. A flag for review, not a finding of edit.", mp.Others, signedDuration(mp.ResidualSec))})
+		if f.Verdict == ZoneSlip {
+			// The photo's own witnesses already say its claim is off; what
+			// the camera adds is that the step is not a zone setting: a
+			// zone setting is the clock's, and its other photos (read in
+			// the clock's own time) do not share it.
 			f.Rejected = append(f.Rejected, Alternative{Verdict: ZoneSlip,
-				Reason: fmt.Sprintf("%s is a whole zone step, but a zone setting applies to every photo of a camera and the other photos of this camera do not share it", signedDuration(f.Basis.StepSec))})
+				Reason: fmt.Sprintf("%s is a whole zone step, but a zone setting belongs to the camera's clock and its other photos do not share it", signedDuration(f.Offset.Sec))})
 			f.Verdict, f.Basis.StepSec = ClockOffset, 0
 			sec, low, high := f.Offset.spans()
 			f.Explanation = fmt.Sprintf("The claimed time is off by %s (95 %% interval %s to %s) while the other photos of the same camera are not: the time of this photo alone was changed, or its clock was set by hand. A possible edit, for review.",
 				sec, low, high)
 		}
-	case hasTimeEvidence(f) && p.Segment >= 0:
-		f.check(Check{Kind: KindCameraClock, Status: Agrees, Figure: p.ResidualSec, HasFigure: true, Unit: "s",
-			Sentence: fmt.Sprintf("This photo agrees with its camera's fitted clock (residual %s).", signedDuration(p.ResidualSec))})
+	case hasTimeEvidence(f):
+		c := Check{Kind: KindCameraClock, Status: Agrees, Figure: mp.ResidualSec, HasFigure: true, Unit: "s",
+			Sentence: fmt.Sprintf("This photo agrees with its camera's clock fitted from %d other photos (residual %s).", mp.Others, signedDuration(mp.ResidualSec))}
 		if f.Verdict == Consistent {
-			x.judgeByCamera(f, cam.Model.Segments[p.Segment])
+			// The photo's own witnesses reach zero; the camera's clock may
+			// still say the claim is off, with a narrower interval.
+			if iv := x.cameraOffset(cam, p.k, seg); !iv.Contains(0, 0) {
+				c.Status = Conflicts
+				sec, low, high := iv.spans()
+				c.Sentence = fmt.Sprintf("By its camera's clock, fitted from %d other photos, this photo's time is off by %s (95 %% interval %s to %s); its own witnesses are too wide to confirm or exclude that, and they decide its verdict.",
+					mp.Others, sec, low, high)
+			}
 		}
-	case f.Offset == nil && p.Segment >= 0 && f.Verdict == Unverified:
+		f.check(c)
+	case f.Offset == nil && f.Verdict == Unverified:
 		f.FromCamera = true
-		f.Earliest = p.Corrected.Add(-p.HalfWidth95)
-		f.Latest = p.Corrected.Add(p.HalfWidth95)
-		seg := cam.Model.Segments[p.Segment]
-		f.Explanation = fmt.Sprintf("No witness of its own; by its camera's fitted clock (offset %s at %s, drift %+.1f s/day) the photo was taken between %s and %s UTC.",
-			signedDuration(seg.OffsetSec), seg.T0.Format(time.DateOnly), seg.DriftSecPerDay, f.Earliest.Format(time.DateTime), f.Latest.Format(time.DateTime))
+		f.Earliest = mp.Corrected.Add(-mp.HalfWidth95)
+		f.Latest = mp.Corrected.Add(mp.HalfWidth95)
+		f.Explanation = fmt.Sprintf("No witness of its own; by its camera's clock, fitted from %s (%s), the photo was taken between %s and %s UTC.",
+			otherPhotos(seg.Points), clockSummary(seg), f.Earliest.Format(time.DateTime), f.Latest.Format(time.DateTime))
 	}
+}
+
+// cameraOffset is the camera model's offset for input k in the photo's own
+// terms (claimed minus true), with its 95 % interval.
+func (x *Examiner) cameraOffset(cam *Camera, k int32, seg clock.Segment) Interval {
+	in := cam.Inputs[k]
+	off, half := seg.OffsetAt(in.Reading)
+	off -= in.Reading.Sub(in.Instants[0]).Seconds() // reading scale → claimed scale
+	return Interval{Sec: off, LowSec: off - half, HighSec: off + half}
+}
+
+// otherPhotos is "1 photo" or "n photos".
+func otherPhotos(n int) string {
+	if n == 1 {
+		return "1 photo"
+	}
+	return fmt.Sprintf("%d photos", n)
+}
+
+// clockSummary states a segment's clock in plain words: its error against
+// the zone it is set to, at a stated date, and its drift or why none is
+// given.
+func clockSummary(s clock.Segment) string {
+	zone := "UTC"
+	if s.Zone.Decided {
+		zone = offsetLabel(s.Zone.OffsetSec)
+	}
+	out := fmt.Sprintf("set to %s and off by %s ± %s on %s", zone, signedDuration(s.ErrorSec()), unsignedDuration(s.OffsetHalf95Sec), s.T0.Format(time.DateOnly))
+	if !s.Zone.Decided {
+		out = fmt.Sprintf("its zone setting not decided; %s off UTC ± %s on %s", signedDuration(s.ErrorSec()), unsignedDuration(s.OffsetHalf95Sec), s.T0.Format(time.DateOnly))
+	}
+	if s.DriftMeasured {
+		return out + fmt.Sprintf(", drift %+.1f s/day (95 %% interval %+.1f to %+.1f)", s.DriftSecPerDay, s.DriftLowSecPerDay, s.DriftHighSecPerDay)
+	}
+	return out + ", drift not determined"
+}
+
+// unsignedDuration is signedDuration without its sign.
+func unsignedDuration(sec float64) string { return signedDuration(sec)[1:] }
+
+// OffsetLabel formats an offset from UTC as "UTC+05:30", as reports name
+// the zone a camera's clock is set to.
+func OffsetLabel(sec int) string { return offsetLabel(sec) }
+
+// ResetNote says in plain words what happened at a reset, for the report's
+// camera section.
+func ResetNote(r clock.Reset) string {
+	if r.Factory {
+		if r.Before == "" {
+			return fmt.Sprintf("The clock fell back to its factory date (%s) before %s.", r.Epoch.Format(time.DateOnly), r.After)
+		}
+		return fmt.Sprintf("The clock fell back to its factory date (%s) between %s and %s.", r.Epoch.Format(time.DateOnly), r.Before, r.After)
+	}
+	return fmt.Sprintf("The clock was reset by %s between %s and %s.", signedDuration(r.StepSec), r.Before, r.After)
+}
+
+// resetSentence tells the first photo after a reset what happened.
+func resetSentence(r clock.Reset) string {
+	if r.Factory {
+		s := fmt.Sprintf("Its camera's clock fell back to its factory date (%s) before this photo", r.Epoch.Format(time.DateOnly))
+		if r.Before != "" {
+			s += fmt.Sprintf("; the last photo before that is %s", r.Before)
+		}
+		return s + "."
+	}
+	return fmt.Sprintf("Its camera's clock was reset by %s between %s and this photo; the two settings are modelled apart.", signedDuration(r.StepSec), r.Before)
 }
 
 // hasTimeEvidence reports whether f's offset comes from its own witnesses
 // about the time of day (not a season or place finding).
 func hasTimeEvidence(f *Finding) bool {
 	return f.Offset != nil && !f.FromCamera && f.Verdict != SeasonMismatch && f.Verdict != PlaceMismatch
-}
-
-// dominantStep is the step most of a camera's photos with evidence show;
-// ties go to the smaller step, so a camera is taken to keep the place's
-// zone unless most of its photos say otherwise.
-func dominantStep(ins []ClockInput) float64 {
-	count := map[float64]int{}
-	for _, in := range ins {
-		if in.HasEvidence {
-			count[in.StepSec]++
-		}
-	}
-	best, n := 0.0, -1
-	for s, c := range count {
-		if c > n || (c == n && abs(s) < abs(best)) {
-			best, n = s, c
-		}
-	}
-	return best
-}
-
-func abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
-}
-
-// judgeByCamera re-judges a photo whose own witnesses allow no clock error
-// when its camera's fitted clock, at the photo's time, excludes zero: the
-// camera's many photos say more than one wide interval.
-func (x *Examiner) judgeByCamera(f *Finding, seg clock.Segment) {
-	off, half := seg.OffsetAt(f.Claimed)
-	if abs(off) <= half {
-		return
-	}
-	own := *f.Offset
-	iv := Interval{Sec: off, LowSec: off - half, HighSec: off + half}
-	f.Rejected = nil
-	f.setOffset(iv)
-	f.FromCamera = true
-	x.judgeOffset(f, iv, fmt.Sprintf("its camera's clock fitted from %d photos", seg.Points))
-	sec, low, high := own.spans()
-	f.Explanation = fmt.Sprintf("Its own witnesses allow no clock error at their uncertainty (offset %s, 95 %% interval %s to %s), but its camera's clock was off at that time: %s",
-		sec, low, high, f.Explanation)
 }

@@ -283,11 +283,12 @@ func TestDriftRecovered(t *testing.T) {
 	}
 	var ins []ClockInput
 	for i := range fs {
-		if in, ok := fs[i].ClockInput(); ok {
+		if in, ok := x.ClockInput(&fs[i]); ok {
 			ins = append(ins, in)
 		}
 	}
-	cams := x.FitCameras(ins).List
+	cs, _ := x.FitCameras(ins)
+	cams := cs.List
 	if len(cams) != 1 || !cams[0].Fitted {
 		t.Fatalf("cameras: %+v", cams)
 	}

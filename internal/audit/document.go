@@ -10,6 +10,7 @@ import (
 	"github.com/gnomon-forensics/gnomon/exifread"
 	"github.com/gnomon-forensics/gnomon/report"
 	"github.com/gnomon-forensics/gnomon/solarcheck"
+	"github.com/gnomon-forensics/gnomon/solarcheck/clock"
 	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
 )
 
@@ -178,48 +179,81 @@ func photo(e Entry, s *stored) report.Photo {
 	return p
 }
 
-func camera(c solarcheck.Camera) report.Camera {
-	rc := report.Camera{ID: c.ID, Photos: len(c.Inputs), Outliers: []string{}, Resets: []string{}, OrderBreaks: []string{}, Points: []report.ClockPoint{}, Note: c.Note}
+func camera(c *solarcheck.Camera) report.Camera {
+	rc := report.Camera{ID: c.ID, Photos: len(c.Inputs), Segments: []report.ClockSegment{}, Outliers: []string{}, Resets: []string{}, ResetNotes: []string{}, OrderBreaks: []string{}, Points: []report.ClockPoint{}, Note: c.Note}
 	for _, ob := range c.Model.OrderBreaks {
 		rc.OrderBreaks = append(rc.OrderBreaks, fmt.Sprintf("%s (file %d) claims a time after %s (file %d)", ob.Later, ob.LaterNumber, ob.Earlier, ob.EarlierNumber))
 	}
 	for _, r := range c.Model.Resets {
 		rc.Resets = append(rc.Resets, r.After)
+		rc.ResetNotes = append(rc.ResetNotes, solarcheck.ResetNote(r))
 	}
 	if !c.Fitted || len(c.Model.Segments) == 0 {
 		return rc
 	}
-	// The segment with the most evidence stands for the camera; resets
-	// are listed so a reader knows there is more than one.
-	seg := c.Model.Segments[0]
-	for _, s := range c.Model.Segments[1:] {
-		if s.Points > seg.Points {
-			seg = s
+	// The segment with the most evidence stands for the camera; every
+	// segment is listed, and the chart shows each with the breaks.
+	main := 0
+	for k, s := range c.Model.Segments {
+		cs := clockSegment(s)
+		if c.Tagged {
+			cs.ClockZone = "its offset tags"
+		}
+		rc.Segments = append(rc.Segments, cs)
+		if s.Points > c.Model.Segments[main].Points {
+			main = k
 		}
 	}
-	rc.OffsetS = ptr(round(seg.OffsetSec, 1))
+	seg, top := c.Model.Segments[main], rc.Segments[main]
+	rc.ClockZone, rc.OffsetS, rc.OffsetLowS, rc.OffsetHighS, rc.OffsetAtUTC = top.ClockZone, top.OffsetS, top.OffsetLowS, top.OffsetHighS, top.OffsetAtUTC
 	rc.OffsetSDs = ptr(round(seg.OffsetHalf95Sec/1.96, 1))
-	rc.DriftSPerDay = ptr(round(seg.DriftSecPerDay, 3))
-	rc.DriftPPM = ptr(round(seg.DriftPPM(), 2))
-	rc.OffsetAtUTC = stamp(seg.T0)
+	rc.DriftSPerDay, rc.DriftLowSPerDay, rc.DriftHighSPerDay, rc.DriftNote = top.DriftSPerDay, top.DriftLowSPerDay, top.DriftHighSPerDay, top.DriftNote
+	if seg.DriftMeasured {
+		rc.DriftPPM = ptr(round(seg.DriftPPM(), 2))
+	}
 	if len(c.Model.Segments) > 1 {
-		rc.Note = fmt.Sprintf("The clock was reset %d time(s); the figures are for the segment with the most evidence (%d photos).", len(c.Model.Segments)-1, seg.Points)
+		rc.Note = fmt.Sprintf("The clock was reset %d time(s); the figures above are for the segment with the most evidence (%d photos with a time witness); every segment is listed.", len(c.Model.Segments)-1, seg.Points)
 	}
 	for k, mp := range c.Model.Photos {
 		if mp.Outlier {
 			rc.Outliers = append(rc.Outliers, mp.Key)
 		}
-		if !c.InFit[k] {
-			continue // the chart shows the evidence the line was fitted to
-		}
 		in := c.Inputs[k]
+		if !in.HasEvidence || mp.Segment < 0 || mp.Factory {
+			continue // the chart shows the evidence of the set clock
+		}
+		z := float64(c.Model.Segments[mp.Segment].Zone.OffsetSec)
 		rc.Points = append(rc.Points, report.ClockPoint{
-			Path: in.Path, ClaimedUTC: stamp(in.Claimed),
-			OffsetS: round(in.Offset.Sec, 1), LowS: round(in.Offset.LowSec, 1), HighS: round(in.Offset.HighSec, 1),
-			Outlier: mp.Outlier,
+			Path: in.Path, ClaimedUTC: stamp(in.Reading.Add(-time.Duration(z) * time.Second)),
+			OffsetS: round(in.Offset.Sec-z, 1), LowS: round(in.Offset.LowSec-z, 1), HighS: round(in.Offset.HighSec-z, 1),
+			Outlier: mp.Outlier, Segment: mp.Segment,
 		})
 	}
 	return rc
+}
+
+// clockSegment is one segment's figures for the report: the clock's error
+// against the zone it is set to (UTC when undecided), its interval, and its
+// drift with its interval or the reason none is stated.
+func clockSegment(s clock.Segment) report.ClockSegment {
+	z := time.Duration(s.Zone.OffsetSec) * time.Second
+	out := report.ClockSegment{
+		From: stamp(s.First.Add(-z)), To: stamp(s.Last.Add(-z)), Photos: s.Points,
+		OffsetS:     ptr(round(s.ErrorSec(), 1)),
+		OffsetLowS:  ptr(round(s.ErrorSec()-s.OffsetHalf95Sec, 1)),
+		OffsetHighS: ptr(round(s.ErrorSec()+s.OffsetHalf95Sec, 1)),
+		OffsetAtUTC: stamp(s.T0.Add(-z)),
+		DriftNote:   s.DriftReason,
+	}
+	if s.Zone.Decided {
+		out.ClockZone = solarcheck.OffsetLabel(s.Zone.OffsetSec)
+	}
+	if s.DriftMeasured {
+		out.DriftSPerDay = ptr(round(s.DriftSecPerDay, 3))
+		out.DriftLowSPerDay = ptr(round(s.DriftLowSecPerDay, 3))
+		out.DriftHighSPerDay = ptr(round(s.DriftHighSecPerDay, 3))
+	}
+	return out
 }
 
 // wallText formats a wall time as ISO 8601 local time, with the

@@ -61,6 +61,9 @@ type Result struct {
 	// photo is written.
 	Verdicts []string
 	Cameras  *solarcheck.Cameras
+	// photoClock[c] is the camera-model place of the photo whose stored
+	// record has Clock == c.
+	photoClock []solarcheck.CameraPhoto
 	// SheetProblems are the sheet's errors as "file:line:column: reason",
 	// including rows naming no photo of the audit.
 	SheetProblems []string
@@ -84,7 +87,8 @@ type stored struct {
 	Notes     []string // report.Photo.FileNotes
 	Thumbnail string
 	// Clock is the index of the finding's solarcheck.ClockInput among
-	// those given to FitCameras; -1 when it has none.
+	// those the run collected (and of its place in Result.photoClock); -1
+	// when it has none.
 	Clock   int
 	Finding solarcheck.Finding
 }
@@ -128,7 +132,7 @@ func Run(ctx context.Context, entries []Entry, o Options) (res *Result, err erro
 		},
 		func(k int, s stored) error {
 			s.Clock = -1
-			if in, ok := s.Finding.ClockInput(); ok {
+			if in, ok := o.Examiner.ClockInput(&s.Finding); ok {
 				if id, seen := cameraIDs[in.Camera]; seen {
 					in.Camera = id
 				} else {
@@ -145,7 +149,7 @@ func Run(ctx context.Context, entries []Entry, o Options) (res *Result, err erro
 	if err := sp.finish(); err != nil {
 		return nil, err
 	}
-	res.Cameras = o.Examiner.FitCameras(clocks)
+	res.Cameras, res.photoClock = o.Examiner.FitCameras(clocks)
 	res.Verdicts = make([]string, 0, len(entries))
 	verdicts := map[solarcheck.Verdict]string{} // one copy of each word
 	err = res.each(ctx, func(k int, s *stored) error {
@@ -183,7 +187,7 @@ func (r *Result) each(ctx context.Context, fn func(k int, s *stored) error) erro
 			return fmt.Errorf("spool, entry %d of %d: %w", k+1, len(r.order), err)
 		}
 		if s.Clock >= 0 {
-			r.x.Apply(r.Cameras, s.Clock, &s.Finding)
+			r.x.Apply(r.photoClock[s.Clock], &s.Finding)
 		}
 		if err := fn(k, &s); err != nil {
 			return err

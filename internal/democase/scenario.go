@@ -89,8 +89,8 @@ type shot struct {
 // Camera B's clock: ahead by driftStart at driftEpoch, gaining driftPerDay.
 var (
 	driftEpoch  = time.Date(2027, 9, 8, 16, 0, 0, 0, time.UTC) // Wed 8 Sep 2027 12:00 EDT
-	driftStart  = 6 * time.Minute
-	driftPerDay = 7 * time.Second // 81 ppm: 3.5 min a month
+	driftStart  = 8 * time.Minute
+	driftPerDay = 5 * time.Second // 58 ppm: 2.5 min a month
 )
 
 // Camera C's home zone: bought in Arizona, which keeps no daylight saving.

@@ -2,17 +2,11 @@ package clock
 
 import (
 	"container/heap"
-	"crypto/sha256"
-	"encoding/hex"
 	"errors"
 	"fmt"
 	"math"
-	"path"
 	"sort"
-	"strings"
 	"time"
-	"unicode"
-	"unicode/utf8"
 )
 
 // ErrNoEvidence marks a camera none of whose photos has independent
@@ -21,14 +15,28 @@ var ErrNoEvidence = errors.New("no photo of this camera has independent time evi
 
 const secPerDay = 86400.0
 
-// Point is one photo of one camera.
+// Point is one photo of one camera, in the clock's own time scale.
 type Point struct {
-	Key        string    // the photo's path, as reports name it
-	ClaimedUTC time.Time // the instant the camera's clock claimed
+	Key string // the photo's path, as reports name it
+	// Reading is what the clock showed: the capture time's digits as
+	// written, held in a time.Time labelled UTC. It is not an instant: the
+	// clock may be set to any zone, and a camera carried to another zone
+	// keeps showing its home time. The model is fitted on this scale, so a
+	// travelling camera has one clock, one offset and one drift.
+	Reading time.Time
+	// Instants are the instants the capture time stands for when read in
+	// the place's zone (or its offset tag): the one used first, then any
+	// other reading of a repeated hour. The order check uses them.
+	Instants []time.Time
+	// Zones are the UTC offsets (seconds) this photo suggests its clock may
+	// be set to: the offset the place kept at that moment, the offset tag.
+	Zones []int
 	// HasEvidence says OffsetSec and HalfWidth95Sec are set: the photo has an
 	// independent time (shadows, GPS clock, ...).
-	HasEvidence    bool
-	OffsetSec      float64 // claimed minus evidence, seconds
+	HasEvidence bool
+	// OffsetSec is the reading minus the evidence's instant, seconds: the
+	// clock's zone offset plus its error.
+	OffsetSec      float64
 	HalfWidth95Sec float64 // half-width of OffsetSec's 95 % interval, ≥ 0
 	// FileName is the file's base name for the order check ("" to skip).
 	FileName string
@@ -41,6 +49,11 @@ type Options struct {
 	MinStep           time.Duration // smallest step called a reset; default 60 s
 	MinSegment        int           // evidence points needed on each side of a reset; default 3
 	AssumedDriftBound float64       // s/day assumed when the data give no drift interval; default 2
+	// MaxDriftHalfWidth is the widest drift interval (half-width, s/day)
+	// still stated as a drift; default 100 s/day (about 1,200 ppm, sixty
+	// times a quartz crystal's tolerance). A wider one says only that the
+	// photos span too short a time to tell.
+	MaxDriftHalfWidth float64
 }
 
 func (o Options) withDefaults() Options {
@@ -59,30 +72,63 @@ func (o Options) withDefaults() Options {
 	if o.AssumedDriftBound <= 0 {
 		o.AssumedDriftBound = 2
 	}
+	if o.MaxDriftHalfWidth <= 0 {
+		o.MaxDriftHalfWidth = 100
+	}
 	return o
 }
 
+// zoneSlackSec is how far from a whole zone offset a clock may be and still
+// be read as set to that zone: a clock set by hand is often a minute or two
+// off (common practice; the same allowance the diagnosis gives zone steps).
+const zoneSlackSec = 120
+
 // Segment is the clock model between two resets.
 type Segment struct {
-	First, Last time.Time // claimed times of the segment's first and last evidence point
+	First, Last time.Time // readings of the segment's first and last evidence point
 	Points      int       // evidence points in the segment
-	T0          time.Time // reference instant: the median claimed time of the evidence
-	OffsetSec   float64   // clock offset at T0 (claimed minus true)
+	T0          time.Time // reference reading: the median reading of the evidence
+	// OffsetSec is the reading minus the true instant at T0, seconds: the
+	// zone offset the clock is set to plus its error (see Zone).
+	OffsetSec float64
 	// OffsetHalf95Sec is the half-width of the offset's 95 % interval.
 	OffsetHalf95Sec float64
-	DriftSecPerDay  float64 // how many seconds the clock gains per day
+	// DriftSecPerDay is how many seconds the clock gains per day when
+	// DriftMeasured; otherwise 0, and DriftLow/High are ± the assumed
+	// bound (Options.AssumedDriftBound) used only to widen predictions.
+	DriftSecPerDay float64
 	// DriftLowSecPerDay and DriftHighSecPerDay bound the drift's 95 %
-	// interval: Sen's interval when DriftMeasured, otherwise the drift ±
-	// Options.AssumedDriftBound.
+	// interval (Sen's interval when DriftMeasured).
 	DriftLowSecPerDay, DriftHighSecPerDay float64
 	DriftMeasured                         bool
-	SigmaSec                              float64 // robust scatter of the residuals, 1σ
+	// DriftReason says, in plain words, why no drift is stated when
+	// DriftMeasured is false.
+	DriftReason string
+	SigmaSec    float64 // robust scatter of the residuals, 1σ
+	Zone        Zone    // the zone the clock was set to, as far as the witnesses tell
 }
+
+// Zone is the verdict on which UTC offset a segment's clock was set to.
+type Zone struct {
+	// Candidates are the offsets (seconds) the segment's photos suggest,
+	// ascending: the places' offsets and any offset tags.
+	Candidates []int
+	// OffsetSec is the one the witnesses support when Decided: the only
+	// candidate the clock's offset lies within its 95 % interval plus
+	// zoneSlackSec of.
+	OffsetSec int
+	Decided   bool
+}
+
+// ErrorSec is the clock's error at T0 against the zone it is set to: the
+// segment offset minus the decided zone offset, or minus 0 (against UTC)
+// when the zone is undecided.
+func (s Segment) ErrorSec() float64 { return s.OffsetSec - float64(s.Zone.OffsetSec) }
 
 // DriftPPM is the drift in parts per million: s/day ÷ 86400 s × 10⁶.
 func (s Segment) DriftPPM() float64 { return s.DriftSecPerDay / secPerDay * 1e6 }
 
-// OffsetAt is the modelled offset (claimed minus true) at claimed time t,
+// OffsetAt is the modelled offset (reading minus true) at reading t,
 // with the half-width of its 95 % interval.
 func (s Segment) OffsetAt(t time.Time) (offsetSec, half95Sec float64) {
 	days := t.Sub(s.T0).Seconds() / secPerDay
@@ -94,33 +140,41 @@ func (s Segment) OffsetAt(t time.Time) (offsetSec, half95Sec float64) {
 type Photo struct {
 	Key     string
 	Segment int // index into Model.Segments; −1 when the photo lies between segments
-	// Corrected is the claimed instant minus the modelled offset, with the
+	// Corrected is the reading minus the modelled offset, with the
 	// half-width of its 95 % interval; zero when Segment is −1.
 	Corrected   time.Time
 	HalfWidth95 time.Duration
 	// ResidualSec is the evidence offset minus the model (evidence points only).
 	ResidualSec float64
+	// Others is how many other evidence points of the photo's segment the
+	// model rests on: below MinOthers the model cannot test this photo.
+	Others int
 	// Outlier marks evidence that disagrees with its camera's model beyond
 	// both the robust scatter and the stated uncertainties: a possible edit,
 	// or a wrong measurement. It is a flag for review, not a finding of edit.
 	Outlier bool
+	// Factory marks a reading at a camera's factory default date (see
+	// FactoryEpoch): the clock had lost its setting.
+	Factory bool
 }
 
+// MinOthers is how many other witnessed photos of the same clock segment a
+// photo needs before the model may say it agrees or conflicts: with fewer,
+// the "model" is one or two photos, a witness no stronger than the photo's
+// own.
+const MinOthers = 3
+
 // Reset is a step in the clock between two evidence points adjacent in
-// claimed time.
+// reading, or a fall-back to a factory default date.
 type Reset struct {
 	Before, After string // keys of the last point before and the first after
 	// StepSec is the later segment's offset minus the earlier segment's
-	// model extrapolated to the later segment's T0.
+	// model extrapolated to the later segment's T0 (0 for a factory reset).
 	StepSec float64
-}
-
-// OrderBreak is a pair of photos whose claimed order contradicts their file
-// numbers: Later was taken after Earlier by the claimed times but carries the
-// smaller number.
-type OrderBreak struct {
-	Earlier, Later             string
-	EarlierNumber, LaterNumber int
+	// Factory is set when the clock fell back to a factory default date
+	// (FactoryEpoch); Epoch is that date.
+	Factory bool
+	Epoch   time.Time
 }
 
 // Model is one camera's clock model.
@@ -133,7 +187,8 @@ type Model struct {
 
 // Fit models the clock of one camera from its points (see the package doc
 // for the methods). When no point has evidence it returns ErrNoEvidence with
-// a Model that still holds the order breaks and uncorrected photos.
+// a Model that still holds the order breaks, uncorrected photos and any
+// fall-back to a factory date.
 func Fit(points []Point, opt Options) (Model, error) {
 	opt = opt.withDefaults()
 	m := Model{Photos: make([]Photo, len(points))}
@@ -141,69 +196,128 @@ func Fit(points []Point, opt Options) (Model, error) {
 		if p.HasEvidence && (math.IsNaN(p.OffsetSec) || math.IsInf(p.OffsetSec, 0) || !(p.HalfWidth95Sec >= 0) || math.IsInf(p.HalfWidth95Sec, 0)) {
 			return Model{}, fmt.Errorf("clock: point %q: offset %v ± %v is not a finite measurement", p.Key, p.OffsetSec, p.HalfWidth95Sec)
 		}
-		m.Photos[i] = Photo{Key: p.Key, Segment: -1}
+		_, factory := FactoryEpoch(p.Reading)
+		m.Photos[i] = Photo{Key: p.Key, Segment: -1, Factory: factory}
 	}
 	m.OrderBreaks = orderBreaks(points)
 
-	var ev []int
+	// Readings at a factory date and the others are two clocks: each group
+	// is segmented and fitted on its own, and photos of one group are never
+	// corrected by the other's model.
+	var evSet, evFactory []int
 	for i, p := range points {
 		if p.HasEvidence {
-			ev = append(ev, i)
+			if m.Photos[i].Factory {
+				evFactory = append(evFactory, i)
+			} else {
+				evSet = append(evSet, i)
+			}
 		}
 	}
-	if len(ev) == 0 {
-		return m, ErrNoEvidence
+	m.Resets = factoryResets(points, m.Photos)
+	byReading := func(ev []int) {
+		sort.SliceStable(ev, func(a, b int) bool { return points[ev[a]].Reading.Before(points[ev[b]].Reading) })
 	}
-	sort.SliceStable(ev, func(a, b int) bool { return points[ev[a]].ClaimedUTC.Before(points[ev[b]].ClaimedUTC) })
-
-	for _, seg := range split(points, ev, opt) {
-		s := fitSegment(points, seg, opt)
-		k := len(m.Segments)
-		if k > 0 {
-			prev := m.Segments[k-1]
-			m.Resets = append(m.Resets, Reset{
-				Before: points[lastOf(points, m.Photos, k-1)].Key,
-				After:  points[seg[0]].Key,
-				StepSec: s.OffsetSec - prev.OffsetSec -
-					prev.DriftSecPerDay*s.T0.Sub(prev.T0).Seconds()/secPerDay,
-			})
-		}
-		m.Segments = append(m.Segments, s)
-		for _, i := range seg {
-			m.Photos[i].Segment = k
-			off, h := s.OffsetAt(points[i].ClaimedUTC)
-			r := points[i].OffsetSec - off
-			m.Photos[i].ResidualSec = r
-			m.Photos[i].Outlier = math.Abs(r) > opt.OutlierK*s.SigmaSec && math.Abs(r) > points[i].HalfWidth95Sec+h
-		}
-	}
-
-	// Photos without evidence join the segment whose evidence span holds
-	// their claimed time; before the first or after the last span they join
-	// that end segment; between two spans, or inside two, they stay unassigned.
-	for i, p := range points {
-		if p.HasEvidence {
+	byReading(evSet)
+	byReading(evFactory)
+	for g, ev := range [][]int{evSet, evFactory} {
+		if len(ev) == 0 {
 			continue
 		}
-		m.Photos[i].Segment = assign(m.Segments, p.ClaimedUTC)
+		first := len(m.Segments)
+		for _, seg := range split(points, ev, opt) {
+			s := fitSegment(points, seg, opt)
+			k := len(m.Segments)
+			if k > first {
+				prev := m.Segments[k-1]
+				m.Resets = append(m.Resets, Reset{
+					Before: points[lastOf(points, m.Photos, k-1)].Key,
+					After:  points[seg[0]].Key,
+					StepSec: s.OffsetSec - prev.OffsetSec -
+						prev.DriftSecPerDay*s.T0.Sub(prev.T0).Seconds()/secPerDay,
+				})
+			}
+			m.Segments = append(m.Segments, s)
+			for _, i := range seg {
+				m.Photos[i].Segment = k
+				m.Photos[i].Others = len(seg) - 1
+				off, h := s.OffsetAt(points[i].Reading)
+				r := points[i].OffsetSec - off
+				m.Photos[i].ResidualSec = r
+				m.Photos[i].Outlier = math.Abs(r) > opt.OutlierK*s.SigmaSec && math.Abs(r) > points[i].HalfWidth95Sec+h
+			}
+		}
+		// Photos without evidence join the segment of their own group whose
+		// evidence span holds their reading; before the first or after the
+		// last span they join that end segment; between two spans, or inside
+		// two, they stay unassigned.
+		for i, p := range points {
+			if p.HasEvidence || m.Photos[i].Factory != (g == 1) {
+				continue
+			}
+			if k := assign(m.Segments[first:], p.Reading); k >= 0 {
+				m.Photos[i].Segment = first + k
+			}
+		}
+	}
+	for k := range m.Segments {
+		m.Segments[k].Zone = segmentZone(points, m.Photos, k, m.Segments[k])
 	}
 	for i, p := range points {
 		k := m.Photos[i].Segment
 		if k < 0 {
 			continue
 		}
-		off, h := m.Segments[k].OffsetAt(p.ClaimedUTC)
-		m.Photos[i].Corrected = p.ClaimedUTC.Add(-secDuration(off))
+		off, h := m.Segments[k].OffsetAt(p.Reading)
+		m.Photos[i].Corrected = p.Reading.Add(-secDuration(off))
 		m.Photos[i].HalfWidth95 = secDuration(h)
+	}
+	if len(evSet)+len(evFactory) == 0 {
+		return m, ErrNoEvidence
 	}
 	return m, nil
 }
 
-// lastOf returns the index of the latest-claimed point assigned to segment k.
+// segmentZone decides which of the zone offsets suggested by segment k's
+// photos its clock was set to: the only one its offset's 95 % interval,
+// widened by zoneSlackSec, reaches. Candidates differ by at least a quarter
+// hour, so a narrow interval picks at most one; a wide one, or a clock off
+// by more than a few minutes from every candidate, leaves it undecided.
+func segmentZone(points []Point, photos []Photo, k int, s Segment) Zone {
+	seen := map[int]bool{}
+	var z Zone
+	for i, p := range points {
+		if photos[i].Segment != k {
+			continue
+		}
+		for _, c := range p.Zones {
+			if !seen[c] {
+				seen[c] = true
+				z.Candidates = append(z.Candidates, c)
+			}
+		}
+	}
+	sort.Ints(z.Candidates)
+	fits := 0
+	for _, c := range z.Candidates {
+		if math.Abs(s.OffsetSec-float64(c)) <= s.OffsetHalf95Sec+zoneSlackSec {
+			fits++
+			z.OffsetSec = c
+		}
+	}
+	if fits != 1 {
+		z.OffsetSec = 0
+		return z
+	}
+	z.Decided = true
+	return z
+}
+
+// lastOf returns the index of the latest-read point assigned to segment k.
 func lastOf(points []Point, photos []Photo, k int) int {
 	best := -1
 	for i, ph := range photos {
-		if ph.Segment == k && (best < 0 || points[i].ClaimedUTC.After(points[best].ClaimedUTC)) {
+		if ph.Segment == k && (best < 0 || points[i].Reading.After(points[best].Reading)) {
 			best = i
 		}
 	}
@@ -214,7 +328,12 @@ func secDuration(s float64) time.Duration {
 	return time.Duration(math.Round(s * float64(time.Second)))
 }
 
+// assign returns the index in segs of the segment a reading t belongs to,
+// or −1 (see Fit).
 func assign(segs []Segment, t time.Time) int {
+	if len(segs) == 0 {
+		return -1
+	}
 	var in []int
 	for k, s := range segs {
 		if !t.Before(s.First) && !t.After(s.Last) {
@@ -249,9 +368,9 @@ func assign(segs []Segment, t time.Time) int {
 func xy(points []Point, idx []int) (x, y []float64) {
 	x = make([]float64, len(idx))
 	y = make([]float64, len(idx))
-	t0 := points[idx[0]].ClaimedUTC
+	t0 := points[idx[0]].Reading
 	for k, i := range idx {
-		x[k] = points[i].ClaimedUTC.Sub(t0).Seconds() / secPerDay
+		x[k] = points[i].Reading.Sub(t0).Seconds() / secPerDay
 		y[k] = points[i].OffsetSec
 	}
 	return x, y
@@ -309,18 +428,23 @@ func split(points []Point, idx []int, opt Options) [][]int {
 
 func fitSegment(points []Point, idx []int, opt Options) Segment {
 	x, y := xy(points, idx)
-	s := Segment{First: points[idx[0]].ClaimedUTC, Last: points[idx[len(idx)-1]].ClaimedUTC, Points: len(idx)}
+	s := Segment{First: points[idx[0]].Reading, Last: points[idx[len(idx)-1]].Reading, Points: len(idx)}
 	x0 := median(x)
 	s.T0 = s.First.Add(secDuration(x0 * secPerDay))
 	l, err := TheilSen(x, y)
-	if err == nil {
-		s.DriftSecPerDay = l.Slope
+	switch {
+	case err != nil || !l.CI:
+		s.DriftReason = fmt.Sprintf("%s: a drift and its 95 %% interval need at least 5 at different times", photoCount(len(idx)))
+	case (l.High-l.Low)/2 > opt.MaxDriftHalfWidth:
+		s.DriftReason = fmt.Sprintf("the %d photos with a time witness span %s, too short a time to tell a drift (the 95 %% interval would be %+.0f to %+.0f s/day)",
+			len(idx), spanText(s.Last.Sub(s.First)), l.Low, l.High)
+	default:
+		s.DriftSecPerDay, s.DriftLowSecPerDay, s.DriftHighSecPerDay, s.DriftMeasured = l.Slope, l.Low, l.High, true
 	}
-	if err == nil && l.CI {
-		s.DriftLowSecPerDay, s.DriftHighSecPerDay, s.DriftMeasured = l.Low, l.High, true
-	} else {
-		s.DriftLowSecPerDay = s.DriftSecPerDay - opt.AssumedDriftBound
-		s.DriftHighSecPerDay = s.DriftSecPerDay + opt.AssumedDriftBound
+	if !s.DriftMeasured {
+		// No drift is stated; predictions away from T0 are widened by the
+		// drift a working quartz clock may have.
+		s.DriftLowSecPerDay, s.DriftHighSecPerDay = -opt.AssumedDriftBound, opt.AssumedDriftBound
 	}
 	r := make([]float64, len(idx))
 	for k := range idx {
@@ -336,119 +460,23 @@ func fitSegment(points []Point, idx []int, opt Options) Segment {
 	return s
 }
 
-// CameraID groups photos by camera: make, model and serial number, each
-// trimmed of spaces and NUL padding, inner runs of white space collapsed and
-// case folded, joined as "make|model|serial"; without a serial,
-// "make|model". It returns "" when make and model are both empty: such
-// photos cannot be grouped by camera.
-//
-// An id longer than MaxCameraIDBytes (no real camera writes one; a crafted
-// or corrupt tag does) is cut and ends with "…#" and the first 16 hex
-// digits of the SHA-256 of the whole id, so different long ids stay apart
-// while each photo's id, held for the whole batch, stays small. The full
-// tag values remain in the file and in `gnomon meta`.
-func CameraID(maker, model, serial string) string {
-	id := cameraID(maker, model, serial)
-	if len(id) <= MaxCameraIDBytes {
-		return id
+func photoCount(n int) string {
+	if n == 1 {
+		return "only 1 photo has a time witness"
 	}
-	sum := sha256.Sum256([]byte(id))
-	cut := MaxCameraIDBytes - len("…#") - 16
-	for cut > 0 && !utf8.RuneStart(id[cut]) {
-		cut-- // do not split a character
-	}
-	return id[:cut] + "…#" + hex.EncodeToString(sum[:8])
+	return fmt.Sprintf("only %d photos have a time witness", n)
 }
 
-// MaxCameraIDBytes bounds the length of a CameraID.
-const MaxCameraIDBytes = 160
-
-func cameraID(maker, model, serial string) string {
-	norm := func(s string) string {
-		s = strings.Map(func(r rune) rune {
-			if r == 0 || unicode.IsSpace(r) {
-				return ' '
-			}
-			return unicode.ToLower(r)
-		}, s)
-		return strings.Join(strings.Fields(s), " ")
+// spanText is a duration in the largest whole unit a reader needs.
+func spanText(d time.Duration) string {
+	switch {
+	case d >= 48*time.Hour:
+		return fmt.Sprintf("%.0f days", d.Hours()/24)
+	case d >= 2*time.Hour:
+		return fmt.Sprintf("%.0f hours", d.Hours())
+	default:
+		return fmt.Sprintf("%.0f minutes", d.Minutes())
 	}
-	mk, md, sn := norm(maker), norm(model), norm(serial)
-	if mk == "" && md == "" {
-		return ""
-	}
-	if sn == "" {
-		return mk + "|" + md
-	}
-	return mk + "|" + md + "|" + sn
-}
-
-// FileNumber parses the trailing digits of a file's base name without its
-// extension: "DSC_0012.JPG" gives 12 with 4 digits. ok is false when the
-// name does not end in digits or they are more than 9.
-func FileNumber(name string) (n, digits int, ok bool) {
-	base := path.Base(strings.ReplaceAll(name, `\`, "/"))
-	if i := strings.LastIndexByte(base, '.'); i > 0 {
-		base = base[:i]
-	}
-	j := len(base)
-	for j > 0 && base[j-1] >= '0' && base[j-1] <= '9' {
-		j--
-	}
-	digits = len(base) - j
-	if digits == 0 || digits > 9 || timestampName(base, j) {
-		return 0, 0, false
-	}
-	for _, c := range base[j:] {
-		n = n*10 + int(c-'0')
-	}
-	return n, digits, true
-}
-
-// timestampName reports whether the trailing digits of base, starting at j,
-// are the time part of a date-and-time name such as IMG_20271010_150211
-// (phones name files by their capture time, common practice): a time of
-// day, not a counter, so it says nothing about capture order.
-func timestampName(base string, j int) bool {
-	if j < 9 || (base[j-1] != '_' && base[j-1] != '-') {
-		return false
-	}
-	for _, c := range base[j-9 : j-1] {
-		if c < '0' || c > '9' {
-			return false
-		}
-	}
-	return true
-}
-
-// orderBreaks sorts the numbered photos by claimed time and reports each
-// adjacent pair (same digit count, distinct claimed times) whose number
-// steps backward by less than half the counter's range; a larger backward
-// step is read as the counter wrapping or being restarted.
-func orderBreaks(points []Point) []OrderBreak {
-	type np struct {
-		i, n, d int
-	}
-	var ps []np
-	for i, p := range points {
-		if n, d, ok := FileNumber(p.FileName); ok {
-			ps = append(ps, np{i, n, d})
-		}
-	}
-	sort.SliceStable(ps, func(a, b int) bool { return points[ps[a].i].ClaimedUTC.Before(points[ps[b].i].ClaimedUTC) })
-	var out []OrderBreak
-	for k := 1; k < len(ps); k++ {
-		a, b := ps[k-1], ps[k]
-		if a.d != b.d || !points[a.i].ClaimedUTC.Before(points[b.i].ClaimedUTC) {
-			continue
-		}
-		mod := int(math.Pow10(a.d))
-		forward := ((b.n-a.n)%mod + mod) % mod
-		if forward > mod/2 {
-			out = append(out, OrderBreak{Earlier: points[a.i].Key, Later: points[b.i].Key, EarlierNumber: a.n, LaterNumber: b.n})
-		}
-	}
-	return out
 }
 
 // runningMedians returns before[k] = median(r[:k]) and after[k] =

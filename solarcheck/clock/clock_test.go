@@ -131,7 +131,7 @@ func simulate(seed uint64, n int, days, offsetSec, driftPerDay, sd float64) []Po
 		pts[i] = Point{
 			Key:            "IMG_" + strconv.Itoa(1000+i) + ".JPG",
 			FileName:       "IMG_" + strconv.Itoa(1000+i) + ".JPG",
-			ClaimedUTC:     claimed,
+			Reading:        claimed,
 			HasEvidence:    true,
 			OffsetSec:      offsetSec + driftPerDay*d + r.NormFloat64()*sd,
 			HalfWidth95Sec: 1.96 * sd,
@@ -156,7 +156,7 @@ func TestFitDriftSimulation(t *testing.T) {
 		for i := 0; i < 10; i++ {
 			p := pts[3*i]
 			p.Key, p.HasEvidence, p.FileName = "noev"+strconv.Itoa(i), false, ""
-			p.ClaimedUTC = p.ClaimedUTC.Add(time.Hour)
+			p.Reading = p.Reading.Add(time.Hour)
 			pts = append(pts, p)
 		}
 		m, err := Fit(pts, Options{})
@@ -176,8 +176,8 @@ func TestFitDriftSimulation(t *testing.T) {
 		// Every photo, with or without evidence, is corrected to within its
 		// stated interval of the truth (offset 125 s + drift·days).
 		for i, ph := range m.Photos {
-			days := pts[i].ClaimedUTC.Sub(epoch).Hours() / 24
-			truth := pts[i].ClaimedUTC.Add(-time.Duration((125 + c.drift*days) * float64(time.Second)))
+			days := pts[i].Reading.Sub(epoch).Hours() / 24
+			truth := pts[i].Reading.Add(-time.Duration((125 + c.drift*days) * float64(time.Second)))
 			if ph.Segment != 0 || ph.HalfWidth95 <= 0 || absDur(ph.Corrected.Sub(truth)) > ph.HalfWidth95 {
 				t.Errorf("%s: %s corrected %v ± %v, truth %v", c.source, ph.Key, ph.Corrected, ph.HalfWidth95, truth)
 			}
@@ -253,8 +253,8 @@ func TestFitResetsAndOutliers(t *testing.T) {
 
 func TestFitFewPoints(t *testing.T) {
 	one := []Point{
-		{Key: "a", ClaimedUTC: epoch, HasEvidence: true, OffsetSec: 40, HalfWidth95Sec: 10},
-		{Key: "b", ClaimedUTC: epoch.Add(10 * 24 * time.Hour)},
+		{Key: "a", Reading: epoch, HasEvidence: true, OffsetSec: 40, HalfWidth95Sec: 10},
+		{Key: "b", Reading: epoch.Add(10 * 24 * time.Hour)},
 	}
 	m, err := Fit(one, Options{})
 	if err != nil {
@@ -263,10 +263,10 @@ func TestFitFewPoints(t *testing.T) {
 	s := m.Segments[0]
 	// With one point the drift is unknown: the assumed ±2 s/day bound widens
 	// the interval 10 days away by about 20 s (hand check).
-	if s.DriftMeasured || s.DriftSecPerDay != 0 || m.Photos[1].HalfWidth95 < 20*time.Second || m.Photos[1].Corrected != one[1].ClaimedUTC.Add(-40*time.Second) {
+	if s.DriftMeasured || s.DriftSecPerDay != 0 || m.Photos[1].HalfWidth95 < 20*time.Second || m.Photos[1].Corrected != one[1].Reading.Add(-40*time.Second) {
 		t.Errorf("one point: %+v %+v", s, m.Photos[1])
 	}
-	if _, err := Fit([]Point{{Key: "x", ClaimedUTC: epoch}}, Options{}); err != ErrNoEvidence {
+	if _, err := Fit([]Point{{Key: "x", Reading: epoch}}, Options{}); err != ErrNoEvidence {
 		t.Errorf("no evidence: %v", err)
 	}
 }
@@ -288,7 +288,7 @@ func TestOrderBreaks(t *testing.T) {
 	for _, c := range cases {
 		var pts []Point
 		for i, n := range c.names {
-			pts = append(pts, Point{Key: n, FileName: n, ClaimedUTC: at(c.times[i])})
+			pts = append(pts, Point{Key: n, FileName: n, Reading: at(c.times[i])})
 		}
 		m, _ := Fit(pts, Options{})
 		if len(m.OrderBreaks) != len(c.want) {

@@ -27,8 +27,8 @@ func TestCorrectedCoverage(t *testing.T) {
 				t.Fatal(err)
 			}
 			for i, ph := range m.Photos {
-				days := pts[i].ClaimedUTC.Sub(epoch).Hours() / 24
-				truth := pts[i].ClaimedUTC.Add(-time.Duration((50 + 1.2*days) * float64(time.Second)))
+				days := pts[i].Reading.Sub(epoch).Hours() / 24
+				truth := pts[i].Reading.Add(-time.Duration((50 + 1.2*days) * float64(time.Second)))
 				tot++
 				if absDur(ph.Corrected.Sub(truth)) <= ph.HalfWidth95 {
 					in++

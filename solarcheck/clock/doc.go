@@ -2,17 +2,25 @@
 // offset from true time, its drift, resets, photos that disagree with the
 // model, and shot order that contradicts the file numbering.
 //
-// Input is, per camera (see CameraID), one Point per photo: the instant its
-// clock claimed, and — when the photo has independent evidence such as
-// shadows or a GPS time — the measured offset (claimed minus evidence, in
-// seconds) with its 95 % half-width.
+// Input is, per camera (see CameraID), one Point per photo: what its clock
+// showed (the capture time's digits, the clock's own time scale), and —
+// when the photo has independent evidence such as shadows or a GPS time —
+// the reading minus the evidence's instant, in seconds, with its 95 %
+// half-width. The model is a model of the clock, not of the places: a
+// camera carried to another zone without changing its clock keeps one
+// offset and one drift, and whether each photo's time fits its place's
+// zone is the photo's own finding. The zone the clock is set to is chosen
+// per segment among the offsets the photos suggest (the places' zones, the
+// offset tags): the only one the offset's 95 % interval, widened by two
+// minutes, reaches; otherwise it is undecided and the offset is stated
+// against UTC.
 //
 // Methods:
 //
 //   - Drift and offset: the Theil–Sen estimator (Theil 1950; Sen 1968). The
 //     slope is the median of the slopes between all pairs of evidence points
-//     with distinct claimed times; the offset is the median of the points'
-//     offsets after removing that slope, referred to the median claimed time
+//     with distinct readings; the offset is the median of the points'
+//     offsets after removing that slope, referred to the median reading
 //     of the segment's evidence (which makes offset and slope nearly
 //     uncorrelated). Theil–Sen has a breakdown point of about 29 %: up to
 //     that share of arbitrarily wrong points cannot carry the slope away
@@ -24,13 +32,17 @@
 //     slopes with C = 1.96·√Var(S); written out in Gilbert (1987),
 //     "Statistical Methods for Environmental Pollution Monitoring", §16.5
 //     (from memory). With fewer than 5 points (n = 4: M1 < 1) it is not
-//     defined; the model then assumes the drift is within ±AssumedDriftBound
-//     (a quartz watch crystal's tolerance of order ±20 ppm, about ±2 s/day:
-//     common knowledge, not measured for any camera).
+//     defined, and an interval wider than ±MaxDriftHalfWidth (photos that
+//     span too short a time) says nothing about a clock: in both cases no
+//     drift is stated (Segment.DriftReason says why), the offset is the
+//     median without a slope, and predictions away from T0 are widened by an
+//     assumed ±AssumedDriftBound (a quartz watch crystal's tolerance of
+//     order ±20 ppm, about ±2 s/day: common knowledge, not measured for any
+//     camera).
 //   - Offset uncertainty: the scatter σ = 1.4826·MAD of the residuals (MAD
 //     scaled to a normal σ), but never less than the median of the points' own
 //     σ; the median's standard error is √(π/2)·σ/√n ≈ 1.2533·σ/√n for normal
-//     errors. The prediction half-width at a claimed time t is
+//     errors. The prediction half-width at a reading t is
 //     √(h_offset² + (h_slope·|t − t0|)²), treating both as independent.
 //   - Resets: binary segmentation on Theil–Sen residuals: the split that
 //     maximises the difference of the medians on either side (each side at
@@ -40,16 +52,24 @@
 //     too few points to form a segment is reported as outliers, not a reset.
 //   - Outliers ("possible edits"): a point whose residual exceeds both
 //     OutlierK·σ and its own 95 % half-width plus the model's.
-//   - Order: photos sorted by claimed time, compared with the trailing digits
+//   - Factory resets: a reading within FactoryWindow after 1970-01-01,
+//     1980-01-01 or 2000-01-01 is a clock that lost its setting (FactoryEpoch).
+//     Such readings are segmented and fitted apart from the set clock's, and
+//     the fall-back is a Reset named by the first photo after it (by file
+//     number when the photos have numbers).
+//   - Order: photos sorted by reading, compared with the trailing digits
 //     of the file's base name (DSC_0012 → 12); a backward step of less than
 //     half the counter's range is a contradiction, a larger one is read as the
-//     counter wrapping (9999 → 0001).
+//     counter wrapping (9999 → 0001). A pair whose instants (the capture time
+//     read in the place's zone, both readings of a repeated hour) allow the
+//     numbering's order is not a contradiction.
 //
 // Every photo of a modelled segment, with or without evidence, gets a
-// corrected UTC instant: corrected = claimed − (offset + drift·(t − t0)),
-// with the prediction half-width. A photo whose claimed time falls between
-// two segments (or in two at once) is not corrected: which side of the reset
-// it lies on is unknown.
+// corrected UTC instant: corrected = reading − (offset + drift·(t − t0)),
+// with the prediction half-width. A photo whose reading falls between
+// two segments (or in two at once), or at a factory date with no witnessed
+// photo of its own, is not corrected: which clock it was read from is
+// unknown.
 //
 // Departure for large cameras: with more than MaxExactPairs pairwise slopes
 // (about 2,000 evidence points) the slope is the median of SampledPairs
@@ -68,6 +88,7 @@
 //
 // Limits: the model is linear within a segment (temperature effects and
 // manual adjustments by less than MinStep are not resolved); evidence points
-// are taken as independent; claimed times are assumed to be the clock's own
-// readings converted to UTC with one fixed zone offset per segment.
+// are taken as independent; a clock is assumed to keep one fixed zone
+// offset per segment (a camera that follows daylight saving by itself shows
+// it as a reset of one hour).
 package clock

@@ -10,13 +10,13 @@ import (
 func ExampleFit() {
 	start := time.Date(2026, 5, 1, 8, 0, 0, 0, time.UTC)
 	var pts []clock.Point
-	for i := 0; i < 8; i++ {
+	for i := 0; i < 10; i++ {
 		days := float64(i) * 2
 		name := fmt.Sprintf("DSC_%04d.JPG", 100+i)
 		pts = append(pts, clock.Point{
 			Key:            name,
 			FileName:       name,
-			ClaimedUTC:     start.Add(time.Duration(days * 24 * float64(time.Hour))),
+			Reading:        start.Add(time.Duration(days * 24 * float64(time.Hour))),
 			HasEvidence:    i%2 == 0, // shadows measured on every other photo
 			OffsetSec:      300 + 1.5*days,
 			HalfWidth95Sec: 4,
@@ -30,10 +30,10 @@ func ExampleFit() {
 	s := m.Segments[0]
 	fmt.Printf("drift %.2f s/day (%.1f ppm), offset %.0f s at %s\n", s.DriftSecPerDay, s.DriftPPM(), s.OffsetSec, s.T0.Format(time.DateOnly))
 	p := m.Photos[3] // no evidence of its own
-	fmt.Printf("%s: claimed %s, corrected %s ± %.0f s\n", p.Key, pts[3].ClaimedUTC.Format(time.TimeOnly), p.Corrected.Format(time.TimeOnly), p.HalfWidth95.Seconds())
+	fmt.Printf("%s: read %s, corrected %s ± %.0f s\n", p.Key, pts[3].Reading.Format(time.TimeOnly), p.Corrected.Format(time.TimeOnly), p.HalfWidth95.Seconds())
 	// Output:
-	// drift 1.50 s/day (17.4 ppm), offset 309 s at 2026-05-07
-	// DSC_0103.JPG: claimed 08:00:00, corrected 07:54:51 ± 3 s
+	// drift 1.50 s/day (17.4 ppm), offset 312 s at 2026-05-09
+	// DSC_0103.JPG: read 08:00:00, corrected 07:54:51 ± 2 s
 }
 
 func ExampleTheilSen() {

@@ -88,8 +88,8 @@ func TestFitLargeCamera(t *testing.T) {
 	if math.Abs(s.DriftSecPerDay-2.5) > 0.01 || !(s.DriftLowSecPerDay <= 2.5 && 2.5 <= s.DriftHighSecPerDay) {
 		t.Errorf("drift %.4f s/day [%.4f, %.4f], want 2.5 within 0.01 and inside the interval (simulation)", s.DriftSecPerDay, s.DriftLowSecPerDay, s.DriftHighSecPerDay)
 	}
-	off, _ := s.OffsetAt(pts[0].ClaimedUTC)
-	want := 300 + 2.5*pts[0].ClaimedUTC.Sub(epoch).Hours()/24 // the noise-free line
+	off, _ := s.OffsetAt(pts[0].Reading)
+	want := 300 + 2.5*pts[0].Reading.Sub(epoch).Hours()/24 // the noise-free line
 	if math.Abs(off-want) > 0.5 {
 		t.Errorf("offset at the first photo %.3f s, want %.3f within 0.5 (simulation)", off, want)
 	}
