@@ -261,7 +261,7 @@ func doAudit(ctx context.Context, e env, cfg auditConfig) (sum summary, err erro
 	}
 
 	zones := zone.NewFinder(nil)
-	// The self-test decodes the zone map (about 0.05 s); run it while the
+	// The self-test reads the zone map (a few hundredths of a second); run it while the
 	// files are read rather than before.
 	stDone := make(chan selftest.Result, 1)
 	go func() { stDone <- selftest.Run(zones) }()

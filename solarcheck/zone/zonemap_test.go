@@ -10,6 +10,10 @@ import (
 	"testing"
 
 	tzfrellite "github.com/ringsaturn/tzf-rel-lite"
+	pb "github.com/ringsaturn/tzf/gen/go/tzf/v1"
+	"google.golang.org/protobuf/encoding/protowire"
+	"google.golang.org/protobuf/proto"
+	"google.golang.org/protobuf/reflect/protoreflect"
 )
 
 // refPoint is one point of the reference table and the zones tzf's exact
@@ -140,19 +144,52 @@ func TestZoneMapAgreesWithTzf(t *testing.T) {
 	t.Logf("%d points: %d where zones overlap, %d in one nautical zone, %d in no polygon", len(pts), overlaps, atSea, none)
 }
 
-// TestZoneMapDataVersion: the version read without decoding is the one the
-// decoded data carries.
+// TestZoneMapDataVersion: the version read without decoding the boundaries is
+// the one protobuf's own decoder reads from tzf's message type, and the one the
+// decoded map carries.
 func TestZoneMapDataVersion(t *testing.T) {
-	zm, err := decodeZoneMap(tzfrellite.LiteCompressData)
-	if err != nil {
+	in := &pb.CompressedTimezones{}
+	if err := proto.Unmarshal(tzfrellite.LiteCompressData, in); err != nil {
 		t.Fatal(err)
 	}
 	v, err := zoneMapDataVersion(tzfrellite.LiteCompressData)
-	if err != nil || v != zm.version || v == "" {
-		t.Fatalf("zoneMapDataVersion = %q, %v; decoded data says %q", v, err, zm.version)
+	if err != nil || v != in.Version || v == "" {
+		t.Fatalf("zoneMapDataVersion = %q, %v; protobuf reads %q", v, err, in.Version)
+	}
+	zm, err := decodeZoneMap(tzfrellite.LiteCompressData)
+	if err != nil || zm.version != v || len(zm.zones) != len(in.Timezones) {
+		t.Fatalf("decoded map: version %q, %d zones, %v; protobuf reads %q, %d zones", zm.version, len(zm.zones), err, v, len(in.Timezones))
 	}
 	if _, err := zoneMapDataVersion([]byte{0x1a, 0x05, 'a'}); err == nil {
 		t.Error("a truncated version field was read without error")
+	}
+	if _, err := decodeZoneMap([]byte{0x08, 0x02}); err == nil {
+		t.Error("data in an unknown compression method was decoded without error")
+	}
+}
+
+// TestFieldNumbers: the field numbers the map is read with are those of tzf's
+// generated message types.
+func TestFieldNumbers(t *testing.T) {
+	num := func(m proto.Message, field string) protowire.Number {
+		return m.ProtoReflect().Descriptor().Fields().ByName(protoreflect.Name(field)).Number()
+	}
+	for _, c := range []struct {
+		got, want protowire.Number
+		what      string
+	}{
+		{fieldMethod, num(&pb.CompressedTimezones{}, "method"), "CompressedTimezones.method"},
+		{fieldTimezones, num(&pb.CompressedTimezones{}, "timezones"), "CompressedTimezones.timezones"},
+		{fieldVersion, num(&pb.CompressedTimezones{}, "version"), "CompressedTimezones.version"},
+		{fieldData, num(&pb.CompressedTimezone{}, "data"), "CompressedTimezone.data"},
+		{fieldName, num(&pb.CompressedTimezone{}, "name"), "CompressedTimezone.name"},
+		{fieldPoints, num(&pb.CompressedPolygon{}, "points"), "CompressedPolygon.points"},
+		{fieldHoles, num(&pb.CompressedPolygon{}, "holes"), "CompressedPolygon.holes"},
+		{methodPolyline, protowire.Number(pb.CompressMethod_COMPRESS_METHOD_POLYLINE), "COMPRESS_METHOD_POLYLINE"},
+	} {
+		if c.got != c.want || c.want == 0 {
+			t.Errorf("%s: %d, tzf's descriptor says %d", c.what, c.got, c.want)
+		}
 	}
 }
 
