@@ -225,6 +225,9 @@ func (x *Examiner) Apply(p CameraPhoto, f *Finding) {
 	case hasTimeEvidence(f):
 		c := Check{Kind: KindCameraClock, Status: Agrees, Figure: mp.ResidualSec, HasFigure: true, Unit: "s",
 			Sentence: fmt.Sprintf("This photo agrees with its camera's clock fitted from %d other photos (residual %s).", mp.Others, signedDuration(mp.ResidualSec))}
+		if f.Verdict == DSTSlip && !cam.Tagged {
+			x.zoneByCamera(f, seg)
+		}
 		if f.Verdict == Consistent {
 			// The photo's own witnesses reach zero; the camera's clock may
 			// still say the claim is off, with a narrower interval.
@@ -243,6 +246,39 @@ func (x *Examiner) Apply(p CameraPhoto, f *Finding) {
 		f.Explanation = fmt.Sprintf("No witness of its own; by its camera's clock, fitted from %s (%s), the photo was taken between %s and %s UTC.",
 			otherPhotos(seg.Points), clockSummary(seg), f.Earliest.Format(time.DateTime), f.Latest.Format(time.DateTime))
 	}
+}
+
+// zoneByCamera names the step of a photo whose own witnesses show one hour
+// at a place that keeps daylight saving, when its camera's clock is known to
+// be set to another zone: a camera kept on its home time (UTC+01:00) in a
+// place one hour ahead is on another zone's time, not behind a
+// daylight-saving change. Both readings fit the photo's own interval; the
+// camera's other photos tell them apart. A clock set to the place's own
+// offset of the other season stays a missed daylight-saving change.
+func (x *Examiner) zoneByCamera(f *Finding, seg clock.Segment) {
+	if !seg.Zone.Decided {
+		return
+	}
+	zs := x.zoneOffsets(f, f.Claimed)
+	if len(zs) == 0 {
+		return
+	}
+	loc := zs[0].loc
+	_, now := f.Claimed.In(loc).Zone()
+	y := f.Claimed.Year()
+	_, jan := time.Date(y, 1, 15, 12, 0, 0, 0, time.UTC).In(loc).Zone()
+	_, jul := time.Date(y, 7, 15, 12, 0, 0, 0, time.UTC).In(loc).Zone()
+	z := seg.Zone.OffsetSec
+	step := float64(z - now)
+	if z == jan || z == jul || !f.Offset.Contains(step, stepSlackSec) {
+		return
+	}
+	f.Rejected = append(f.Rejected, Alternative{Verdict: DSTSlip,
+		Reason: fmt.Sprintf("a missed daylight-saving change: the camera's clock was set to %s across its other photos, which is not this place's time in either season (%s, %s)", offsetLabel(z), offsetLabel(jan), offsetLabel(jul))})
+	f.Verdict, f.Basis.StepSec = ZoneSlip, step
+	sec, low, high := f.Offset.spans()
+	f.Explanation = fmt.Sprintf("The claimed time is off by %s (95 %% interval %s to %s), a whole time-zone step: the camera's clock was kept on %s, the zone its other photos show it was set to, while this place keeps %s.",
+		sec, low, high, offsetLabel(z), offsetLabel(now))
 }
 
 // cameraOffset is the camera model's offset for input k in the photo's own
