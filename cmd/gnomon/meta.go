@@ -5,21 +5,23 @@ import (
 	"fmt"
 	"io"
 	"io/fs"
-	"os"
 	"path/filepath"
-	"sort"
 	"strings"
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/exifread"
+	"github.com/gnomon-forensics/gnomon/internal/audit"
 	"github.com/gnomon-forensics/gnomon/report"
 )
 
 // runMeta prints the evidence exifread finds in each photo: a readable block
-// per file, or a JSON array of records with --json. Directories are walked
-// recursively without following symbolic links, so the walk cannot leave
-// the tree it was given. A file that cannot be read still gets a record with
-// its error; the exit status is 1 only when no input could be opened at all.
+// per file, or a JSON array of records with --json. Folders are walked as
+// the audit walks them (audit.Walk: links to files inside the folder are
+// read, other links are not followed). An input that does not exist, and an
+// item that is not read (a link leaving the folder, a FIFO), get one line
+// on stderr naming the path; a file that opens but cannot be parsed still
+// gets a record with its error. The exit status is 1 when no file could be
+// opened at all.
 func runMeta(e env, args []string) int {
 	fs := newFlagSet(e, "meta", "gnomon meta [--json] FILE|DIR...",
 		"Print the normalised evidence read from photos: capture times, offsets, GPS,\n"+
@@ -33,13 +35,38 @@ func runMeta(e env, args []string) int {
 	if fs.NArg() == 0 {
 		return usageErr(fs, "no FILE or DIR given")
 	}
-	paths, opened, werr := collectFiles(fs.Args())
-	for _, err := range werr {
-		fmt.Fprintf(e.stderr, "gnomon meta: %v\n", err)
+	ins, err := audit.Inputs(fs.Args())
+	if errors.Is(err, audit.ErrNestedInput) {
+		return usageErr(fs, "%v", err)
 	}
-	recs := make([]exifread.Record, 0, len(paths))
-	for _, p := range paths {
-		recs = append(recs, exifread.ReadFile(p, exifread.Options{SkipHash: *noHash}))
+	if err != nil {
+		for _, line := range strings.Split(err.Error(), "\n") {
+			fmt.Fprintf(e.stderr, "gnomon meta: %s\n", line)
+		}
+	}
+	recs := []exifread.Record{}
+	for _, in := range ins {
+		entries, err := audit.WalkInputs([]audit.Input{in})
+		if err != nil {
+			fmt.Fprintf(e.stderr, "gnomon meta: %v\n", err)
+			continue
+		}
+		for _, en := range entries {
+			shown := en.Root // a file input, as given
+			if in.IsDir {
+				shown = filepath.Join(en.Root, filepath.FromSlash(en.Rel))
+			}
+			switch {
+			case en.SidecarOf != "":
+				continue // read with its photo
+			case en.Err != nil:
+				fmt.Fprintf(e.stderr, "gnomon meta: %s: %v\n", shown, en.Err)
+				continue
+			}
+			rec := exifread.ReadFile(en.Abs, exifread.Options{SkipHash: *noHash})
+			rec.Path = shown
+			recs = append(recs, rec)
+		}
 	}
 	if *asJSON {
 		// The audit's writer: bytes that are not UTF-8 keep a "_raw_b64" sibling.
@@ -51,64 +78,20 @@ func runMeta(e env, args []string) int {
 			printRecord(e.stdout, &recs[i])
 		}
 	}
-	anyOpened := opened
 	for _, r := range recs {
 		if !isOpenErr(r.Err) {
-			anyOpened = true
+			return exitOK
 		}
 	}
-	if !anyOpened {
-		return fail(e.stderr, "meta", errors.New("no input could be opened"))
+	if len(recs) == 0 && err != nil {
+		return exitFailure // the missing inputs are named above
 	}
-	return exitOK
+	return fail(e.stderr, "meta", errors.New("no file could be read"))
 }
 
 func isOpenErr(err error) bool {
 	var pe *fs.PathError
 	return errors.As(err, &pe) && pe.Op == "open"
-}
-
-// collectFiles expands the arguments: files stay as given, directories are
-// walked (sorted). Inside a walk no symbolic link is followed, not even one
-// that points within the tree, so the walk can neither leave the tree nor
-// visit a file twice. Arguments that cannot be stat'ed
-// are kept as files so that they get a record carrying the error. opened
-// reports whether any directory was walked.
-func collectFiles(args []string) (files []string, opened bool, errs []error) {
-	for _, a := range args {
-		st, err := os.Stat(a) // an argument naming a symlink to a folder is walked
-		if err != nil || !st.IsDir() {
-			files = append(files, a)
-			continue
-		}
-		root := a
-		if lst, err := os.Lstat(a); err == nil && lst.Mode()&fs.ModeSymlink != 0 {
-			if r, err := filepath.EvalSymlinks(a); err == nil {
-				root = r
-			}
-		}
-		opened = true
-		var found []string
-		err = filepath.WalkDir(root, func(p string, d fs.DirEntry, err error) error {
-			if err != nil {
-				errs = append(errs, err)
-				if d != nil && d.IsDir() {
-					return fs.SkipDir
-				}
-				return nil
-			}
-			if d.Type().IsRegular() && !strings.EqualFold(filepath.Ext(p), ".xmp") {
-				found = append(found, p)
-			}
-			return nil
-		})
-		if err != nil {
-			errs = append(errs, err)
-		}
-		sort.Strings(found)
-		files = append(files, found...)
-	}
-	return files, opened, errs
 }
 
 // printRecord writes one readable block.

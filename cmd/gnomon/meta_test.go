@@ -24,8 +24,12 @@ func TestMetaJSON(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &recs); err != nil {
 		t.Fatalf("not a JSON array: %v\n%s", err, out)
 	}
-	if len(recs) != 3 {
-		t.Fatalf("%d records, want 3", len(recs))
+	// A missing input is one line on stderr naming it, not a record.
+	if len(recs) != 2 {
+		t.Fatalf("%d records, want 2", len(recs))
+	}
+	if errOut != "gnomon meta: input \"does-not-exist.jpg\": no such file or directory\n" {
+		t.Errorf("stderr %q: want one line naming the missing input", errOut)
 	}
 	for _, r := range recs {
 		for _, k := range []string{"path", "sha256", "container", "error", "date_time_original", "gps", "make"} {
@@ -43,7 +47,6 @@ func TestMetaJSON(t *testing.T) {
 	}{
 		{0, "jpeg", "Gnomon Test Optics", true},
 		{1, "heif", "Gnomon Test Optics", true},
-		{2, "unknown", "", false},
 	} {
 		r := recs[tc.i]
 		if r["container"] != tc.container || r["make"] != tc.make || (r["error"] == nil) != tc.errNull {
@@ -83,12 +86,18 @@ func TestMetaExitCodes(t *testing.T) {
 		{"help", []string{"meta", "-h"}, exitOK},
 		{"nothing opens", []string{"meta", "missing-1.jpg", "missing-2.jpg"}, exitFailure},
 		{"a damaged file still opens", []string{"meta", "meta.go"}, exitOK},
+		{"a folder inside another", []string{"meta", ".", "../.."}, exitUsage},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			if code, _, _ := captureRun(tc.args...); code != tc.code {
 				t.Errorf("exit %d, want %d", code, tc.code)
 			}
 		})
+	}
+	// Nothing read: one line naming the path, nothing on stdout, exit 1.
+	code, out, errOut := captureRun("meta", "/nonexistent/x.jpg")
+	if code != exitFailure || out != "" || errOut != "gnomon meta: input \"/nonexistent/x.jpg\": no such file or directory\n" {
+		t.Errorf("missing file: exit %d, stdout %q, stderr %q", code, out, errOut)
 	}
 }
 

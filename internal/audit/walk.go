@@ -171,14 +171,18 @@ func WalkInputs(ins []Input) ([]Entry, error) {
 	return all, nil
 }
 
+// walkOne lists the items under one input. A folder is walked through its
+// real path: filepath.WalkDir does not descend into a root that is a
+// symbolic link, and an input named through a link is the examiner's
+// explicit choice.
 func walkOne(in Input) ([]Entry, error) {
-	abs := in.Abs
+	abs := in.Real
 	st, err := os.Stat(abs)
 	if err != nil {
 		return nil, fmt.Errorf("input %q: %w", in.Arg, err)
 	}
 	if !st.IsDir() {
-		e := Entry{Root: in.Arg, Abs: abs, Rel: filepath.Base(abs), ID: in.Label}
+		e := Entry{Root: in.Arg, Abs: abs, Rel: filepath.Base(in.Abs), ID: in.Label}
 		if !st.Mode().IsRegular() {
 			e.Err = ErrNotRegular
 		}
