@@ -57,6 +57,19 @@ var verdictStyles = []verdictStyle{
 	{"light_mismatch", "Light disagrees", "The exposure needs far more or less light than the sun gave then.", "v-light", "rays"},
 	{"unverified", "Not testable", "Nothing independent was available to test the claim.", "v-none", "ring"},
 	{"unreadable", "Could not read", "The file could not be read; the reason is given.", "v-bad", "cross"},
+	{"sidecar", "Read with its photo", "An XMP sidecar file: its contents are read with the photo it belongs to.", "v-none", "ring"},
+}
+
+// Flagged reports whether a verdict calls for the examiner's attention:
+// every verdict but consistent, unverified and sidecar (a file read with
+// its photo). It is the one rule behind the choice of HTML cards and the
+// audit's --strict exit status.
+func Flagged(verdict string) bool {
+	switch verdict {
+	case "consistent", "unverified", "sidecar":
+		return false
+	}
+	return true
 }
 
 func verdictStyleOf(code string) verdictStyle {
@@ -178,7 +191,7 @@ const MaxCards = 1000
 // Carded reports, for each photo in report order (given by its verdict),
 // whether report.html gives it a card. Every photo gets one when there are
 // at most MaxCards. Otherwise the cards go first to the photos whose verdict
-// calls for attention (anything but consistent and unverified), then to the
+// calls for attention ([Flagged]), then to the
 // others; within each of those two groups the verdicts take turns, each in
 // path order, so that a rare finding is never crowded out by a common one.
 // The choice depends only on the photos' order and verdicts, so reruns
@@ -203,10 +216,10 @@ func Carded(verdicts []string) []bool {
 	slices.Sort(order)
 	var flagged, calm []string
 	for _, v := range order {
-		if v == "consistent" || v == "unverified" {
-			calm = append(calm, v)
-		} else {
+		if Flagged(v) {
 			flagged = append(flagged, v)
+		} else {
+			calm = append(calm, v)
 		}
 	}
 	left := MaxCards

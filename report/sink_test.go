@@ -291,3 +291,18 @@ func BenchmarkJSONSink(b *testing.B) {
 		}
 	}
 }
+
+// TestFlagged: the verdicts that call for attention are those that say
+// something is off (README, verdict table); a photo nothing could test and
+// a sidecar read with its photo do not.
+func TestFlagged(t *testing.T) {
+	for _, s := range verdictStyles {
+		want := !(s.Code == "consistent" || s.Code == "unverified" || s.Code == "sidecar")
+		if Flagged(s.Code) != want {
+			t.Errorf("Flagged(%q) = %v, want %v", s.Code, !want, want)
+		}
+	}
+	if !Flagged("not_a_verdict") {
+		t.Error("an unknown verdict must call for attention, not pass unseen")
+	}
+}

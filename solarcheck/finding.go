@@ -23,6 +23,7 @@ const (
 	LightMismatch  Verdict = "light_mismatch"  // the exposure does not fit the light at the claimed moment
 	Unverified     Verdict = "unverified"      // no independent witness
 	Unreadable     Verdict = "unreadable"      // the file could not be read well enough to judge
+	Sidecar        Verdict = "sidecar"         // an XMP sidecar: read with its photo, not judged on its own
 )
 
 // Status is the outcome of one check.

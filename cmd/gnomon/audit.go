@@ -55,14 +55,14 @@ func runAudit(e env, args []string) int {
 			"witnesses, fit each camera's clock, and write the reports. Evidence is opened read-only; the report\n"+
 			"folder may not lie inside an input; an input inside another is refused, one given twice is read once.\n"+
 			"Exit 0 when the run completed, 1 when it failed (an unusable sheet fails it; with --strict, so does\n"+
-			"any sheet problem or any verdict other than consistent or unverified), 2 for bad usage.")
+			"any sheet problem or any verdict but consistent, unverified and sidecar), 2 for bad usage.")
 	cfg := auditConfig{args: append([]string{"gnomon", "audit"}, args...)}
 	fs.StringVar(&cfg.sheetPath, "shadows", "", "the examiner's measurement sheet (CSV; see `gnomon sheet`)")
 	fs.StringVar(&cfg.out, "out", "gnomon-report", "report folder to create (must not exist, or be empty)")
 	formats := fs.String("formats", strings.Join([]string{"html", "csv", "json", "geojson"}, ","), "report formats to write, comma-separated")
 	fs.IntVar(&cfg.workers, "j", runtime.NumCPU(), "files read at once")
 	fs.BoolVar(&cfg.quiet, "quiet", false, "no progress or summary on stderr")
-	fs.BoolVar(&cfg.strict, "strict", false, "exit 1 when any verdict is other than consistent or unverified; stop at any problem of the sheet")
+	fs.BoolVar(&cfg.strict, "strict", false, "exit 1 when any verdict calls for attention (not consistent, unverified or sidecar); stop at any problem of the sheet")
 	fs.BoolVar(&cfg.thumbnails, "thumbnails", true, "write thumbnails for the HTML report")
 	if code, done := parseFlags(fs, interleave(args)); done {
 		return code
@@ -342,7 +342,7 @@ func doAudit(ctx context.Context, e env, cfg auditConfig) (sum summary, err erro
 	sum.sheetProblems = len(res.SheetProblems)
 	sum.selfTestOK = st.Passed
 	for v, n := range sum.byVerdict {
-		if v != string(solarcheck.Consistent) && v != string(solarcheck.Unverified) {
+		if report.Flagged(v) {
 			sum.flagged += n
 		}
 	}

@@ -204,3 +204,27 @@ func TestAuditSheetGate(t *testing.T) {
 		})
 	}
 }
+
+// TestAuditSidecarStrict: a valid .xmp sidecar has its own verdict, not
+// "unreadable", so --strict passes on a folder that holds one (it failed
+// before, the sidecar counting as a file that could not be read).
+func TestAuditSidecarStrict(t *testing.T) {
+	base := t.TempDir()
+	ev := filepath.Join(base, "ev")
+	writePhoto(t, filepath.Join(ev, "IMG_1.jpg"), "2026:06:20 15:10:00", 0, 0) // no witness: unverified
+	// An XMP packet as Adobe's XMP Specification Part 1 (2012) writes one.
+	writeFile(t, filepath.Join(ev, "IMG_1.xmp"), `<x:xmpmeta xmlns:x="adobe:ns:meta/"><rdf:RDF xmlns:rdf="http://www.w3.org/1999/02/22-rdf-syntax-ns#">`+
+		`<rdf:Description xmlns:exif="http://ns.adobe.com/exif/1.0/" exif:DateTimeOriginal="2026-06-20T15:10:00+02:00"/></rdf:RDF></x:xmpmeta>`)
+	out := filepath.Join(base, "report")
+	code, _, stderr := captureRun("audit", ev, "--out", out, "--quiet", "--formats", "json", "--strict")
+	if code != exitOK {
+		t.Fatalf("--strict: exit %d: %s", code, stderr)
+	}
+	got := map[string]string{}
+	for _, p := range readAuditJSON(t, out).Photos {
+		got[p.Path] = p.Verdict
+	}
+	if got["IMG_1.xmp"] != "sidecar" || got["IMG_1.jpg"] != "unverified" {
+		t.Errorf("verdicts %v: want the sidecar as sidecar, the photo unverified", got)
+	}
+}

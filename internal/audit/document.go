@@ -312,7 +312,7 @@ func LateThumbnails(ctx context.Context, res *Result, workers int, read exifread
 	read.SkipHash, read.SkipSidecar = true, true
 	var todo []int // report positions
 	for k, carded := range res.Carded() {
-		if carded && res.Verdicts[k] != string(solarcheck.Unreadable) {
+		if v := res.Verdicts[k]; carded && v != string(solarcheck.Unreadable) && v != string(solarcheck.Sidecar) {
 			todo = append(todo, k)
 		}
 	}

@@ -212,7 +212,7 @@ func (o Options) process(i int, e Entry, rows []sheet.Row) stored {
 		// Hashed like every file; its "unsupported container" is expected
 		// (an XMP file is not a photo) and would only contradict the row.
 		s.Error = ""
-		s.Finding = solarcheck.Finding{Path: e.ID, Verdict: solarcheck.Unreadable,
+		s.Finding = solarcheck.Finding{Path: e.ID, Verdict: solarcheck.Sidecar,
 			Explanation: fmt.Sprintf("XMP sidecar of %s: not a photo; its contents are read with that photo.", e.SidecarOf)}
 		return s
 	}
