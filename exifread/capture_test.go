@@ -1,6 +1,10 @@
 package exifread
 
-import "testing"
+import (
+	"os"
+	"path/filepath"
+	"testing"
+)
 
 // TestCaptureTime: the capture time is DateTimeOriginal when usable, then
 // DateTimeDigitized, then DateTime. EXIF 2.32 (CIPA DC-008-2019), the tag
@@ -26,6 +30,33 @@ func TestCaptureTime(t *testing.T) {
 		w, tag, err := c.rec.CaptureTime()
 		if tag != c.wantTag || (err == nil) != (c.wantErr == "") || (err != nil && err.Error() != c.wantErr) || (w == nil) != (c.wantTag == "") {
 			t.Errorf("%s: got %v %q %v, want %q %q", c.source, w, tag, err, c.wantTag, c.wantErr)
+		}
+	}
+}
+
+// TestCheckSidecar: a sidecar is usable when it holds an XMP property.
+func TestCheckSidecar(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name, s string) string {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, []byte(s), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	cases := []struct {
+		source string
+		path   string
+		ok     bool
+	}{
+		{"fixture written by gen_fixtures.sh", filepath.Join("testdata", "fixtures", "sidecar_noexif.xmp"), true},
+		{"empty file", write("empty.xmp", ""), false},
+		{"namespace declarations only", write("ns.xmp", `<x:xmpmeta xmlns:x="adobe:ns:meta/"/>`), false},
+		{"not XML", write("bin.xmp", "\x00\x01<<<"), false},
+	}
+	for _, c := range cases {
+		if err := CheckSidecar(c.path, Options{}); (err == nil) != c.ok {
+			t.Errorf("%s: %v, want usable %v", c.source, err, c.ok)
 		}
 	}
 }

@@ -5,6 +5,7 @@ import (
 	"encoding/xml"
 	"errors"
 	"io"
+	"os"
 	"strconv"
 	"strings"
 )
@@ -126,4 +127,34 @@ func parseXMPRational(s string) (float64, bool) {
 	}
 	v, err := strconv.ParseFloat(s, 64)
 	return v, err == nil
+}
+
+// CheckSidecar says whether the .xmp file at path gives its photo anything:
+// nil when it is an XMP packet with at least one property, otherwise why not
+// (too large, not well-formed XML, empty). The file is opened read-only.
+// The photo's own record reads the sidecar's values (ReadFile); this only
+// lets the sidecar's row in a report say whether it was usable.
+func CheckSidecar(path string, opt Options) error {
+	opt = opt.withDefaults()
+	st, err := os.Stat(path)
+	if err != nil {
+		return err
+	}
+	if st.Size() > opt.MaxXMPBytes {
+		return &LimitError{Where: "sidecar", Limit: "MaxXMPBytes", Value: st.Size(), Max: opt.MaxXMPBytes}
+	}
+	b, err := os.ReadFile(path)
+	if err != nil {
+		return err
+	}
+	props, err := parseXMP(b)
+	if err != nil {
+		return err
+	}
+	for k := range props {
+		if !strings.HasPrefix(k, "xmlns ") { // a namespace declaration is no property
+			return nil
+		}
+	}
+	return errors.New("no XMP property in the file")
 }

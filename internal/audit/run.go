@@ -211,6 +211,14 @@ func (o Options) process(i int, e Entry, rows []sheet.Row) stored {
 	if e.SidecarOf != "" {
 		// Hashed like every file; its "unsupported container" is expected
 		// (an XMP file is not a photo) and would only contradict the row.
+		// A sidecar that gives its photo nothing (empty, not XML) is
+		// unreadable evidence like any damaged file.
+		if err := exifread.CheckSidecar(e.Abs, o.Read); err != nil {
+			s.Error = err.Error()
+			s.Finding = solarcheck.Finding{Path: e.ID, Verdict: solarcheck.Unreadable,
+				Explanation: fmt.Sprintf("XMP sidecar of %s that gives it nothing: %v.", e.SidecarOf, err)}
+			return s
+		}
 		s.Error = ""
 		s.Finding = solarcheck.Finding{Path: e.ID, Verdict: solarcheck.Sidecar,
 			Explanation: fmt.Sprintf("XMP sidecar of %s: not a photo; its contents are read with that photo.", e.SidecarOf)}
