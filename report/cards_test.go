@@ -51,7 +51,7 @@ func TestCardPolicy(t *testing.T) {
 	}
 	for _, s := range []string{
 		"<b>1500 files have no card here</b>",
-		"1500 Sun agrees <code>consistent</code>",
+		"1500 Sun agrees)",
 		"report.json and report.csv hold every file",
 		"(1000 with a card below;",
 		`<span class="idx">No. 2500</span>`, // numbers are places in the full list

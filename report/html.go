@@ -28,6 +28,9 @@ var pageTemplate = template.Must(template.New("page").Funcs(template.FuncMap{
 	"opt":   fmtOpt,
 	"optd":  fmtOptOffset,
 	"offs":  offsetSpans,
+	"claim": claimSourceText,
+	"kind":  checkKindText,
+	"stat":  checkStatusText,
 	"fig":   fmtFigure,
 	"unc":   fmtUncertainty,
 	"style": verdictStyleOf,
@@ -48,7 +51,7 @@ type verdictStyle struct {
 // verdictStyles lists every verdict in the order the summary shows them.
 var verdictStyles = []verdictStyle{
 	{"consistent", "Sun agrees", "Every check that could be made agrees with the claimed time and place.", "v-ok", "disc"},
-	{"clock_offset", "Clock set off", "The camera clock differs from the evidence by a steady amount.", "v-clock", "dial"},
+	{"clock_offset", "Clock off", "The camera clock differs from the evidence by an amount that is no time-zone, daylight-saving or 12-hour step: a clock running fast or slow, or set wrongly.", "v-clock", "dial"},
 	{"zone_slip", "Zone mix-up", "The clock reads the time of another zone (whole or half hours off).", "v-zone", "split"},
 	{"dst_slip", "Summer-time slip", "The clock is one hour off around a daylight-saving change.", "v-dst", "stripe"},
 	{"ampm_slip", "Half-day slip", "The time reads twelve hours off: morning and afternoon swapped.", "v-ampm", "halfmoon"},
@@ -164,6 +167,7 @@ func (s *htmlSink) Close() error {
 type htmlPage struct {
 	A        *Audit
 	Tally    []tallyRow
+	Glossary []glossaryGroup
 	TallyBar []barSeg
 	Total    int
 	Cameras  []cameraView
@@ -265,7 +269,7 @@ type cardView struct {
 
 // page builds the page from what the sink gathered.
 func (s *htmlSink) page() (htmlPage, error) {
-	pg := htmlPage{A: &s.head, Total: s.n, MaxCards: MaxCards, Left: s.left, Carded: len(s.cards)}
+	pg := htmlPage{A: &s.head, Total: s.n, MaxCards: MaxCards, Left: s.left, Carded: len(s.cards), Glossary: glossary()}
 	var bg strings.Builder
 	if err := pageTemplate.ExecuteTemplate(&bg, "skybg", skyStatic()); err != nil {
 		return pg, err

@@ -118,7 +118,7 @@ func (x *Examiner) judgeOffset(f *Finding, iv Interval, source string) {
 	if len(accepted) == 0 {
 		f.Basis.StepSec = 0
 		f.Verdict = ClockOffset
-		f.Explanation = fmt.Sprintf("The claimed time is off by %s, which is not a time-zone, daylight-saving or 12-hour step: the camera clock was wrong, or the time was changed.", ivText)
+		f.Explanation = fmt.Sprintf("The claimed time is off by %s, which is not a time-zone, daylight-saving or 12-hour step: %s.", ivText, clockOffsetCause(iv.Sec))
 		return
 	}
 	// Consistent wins whenever the interval reaches zero; otherwise the

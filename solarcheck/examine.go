@@ -146,7 +146,7 @@ func (x *Examiner) Examine(p Photo) Finding {
 		f.Verdict = Unverified
 		f.Explanation = "The claimed time could not be placed in UTC"
 		if err != nil {
-			f.Explanation += ": " + err.Error()
+			f.Explanation += ": " + claimProblem(err)
 		}
 		f.Explanation += ". Without a place or an offset the sun cannot be consulted."
 		return f

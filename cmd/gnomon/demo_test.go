@@ -3,13 +3,18 @@ package main
 import (
 	"encoding/json"
 	"fmt"
+	"html"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 
 	"github.com/gnomon-forensics/gnomon/internal/democase"
 	"github.com/gnomon-forensics/gnomon/internal/figure"
+	"github.com/gnomon-forensics/gnomon/internal/testkit/browsertest"
+	"github.com/gnomon-forensics/gnomon/solarcheck"
+	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
 )
 
 // TestDemoFindsEveryPlantedFault builds the invented demo case, audits it
@@ -114,5 +119,55 @@ func TestDemoFindsEveryPlantedFault(t *testing.T) {
 		if p.Outlier != outliers[label+"/"+p.Path] {
 			t.Errorf("%s: flagged as a possible edit: %v, planted: %v", p.Path, outliers[p.Path], p.Outlier)
 		}
+	}
+}
+
+// TestDemoPageSpeaksPlainly opens the demo case's report.html in headless
+// Chromium and reads the text the browser rendered: outside the page's
+// glossary of report.json codes, no internal code may appear (issue 18:
+// cards showed "(place_zone)", "no override", "zone: claim …" and check
+// kinds as codes). The codes are taken from the packages that define them.
+func TestDemoPageSpeaksPlainly(t *testing.T) {
+	bin := browsertest.Find(t)
+	dir := filepath.Join(t.TempDir(), "demo")
+	c, err := democase.Build(dir, democase.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(t.TempDir(), "report")
+	code, _, stderr := captureRun("audit", c.PhotosDir, "--shadows", c.SheetPath, "--out", out, "--quiet", "--formats", "html")
+	if code != exitOK {
+		t.Fatalf("audit exit %d: %s", code, stderr)
+	}
+	dom, _ := browsertest.Run(t, bin, filepath.Join(out, "report.html"), "--dump-dom")
+	glossary, rest := "", dom
+	start := strings.Index(dom, `<section id="glossary"`)
+	end := strings.Index(dom[max(start, 0):], "</section>")
+	if start < 0 || end < 0 {
+		t.Errorf("the rendered page has no glossary section")
+	} else {
+		glossary, rest = dom[start:start+end], dom[:start]+dom[start+end:]
+	}
+	text := func(s string) string {
+		return html.UnescapeString(regexp.MustCompile(`<[^>]*>`).ReplaceAllString(s, " "))
+	}
+	codes := []string{"no override", "zone: claim",
+		string(zone.RuleOffsetTag), string(zone.RuleOverrideTime), string(zone.RuleOverrideOffset), string(zone.RuleOverrideZone), string(zone.RulePlaceZone)}
+	for _, v := range []solarcheck.Verdict{solarcheck.ClockOffset, solarcheck.ZoneSlip, solarcheck.DSTSlip, solarcheck.AMPMSlip,
+		solarcheck.SeasonMismatch, solarcheck.PlaceMismatch, solarcheck.LightMismatch} {
+		codes = append(codes, string(v))
+	}
+	for _, k := range []solarcheck.Kind{solarcheck.KindShadowTime, solarcheck.KindSunUp, solarcheck.KindGPSClock, solarcheck.KindOffsetTag,
+		solarcheck.KindShadowPlace, solarcheck.KindCameraClock, solarcheck.KindShotOrder} {
+		codes = append(codes, string(k))
+	}
+	body := text(rest)
+	for _, c := range codes {
+		if i := strings.Index(body, c); i >= 0 {
+			t.Errorf("the page shows the code %q outside its glossary: …%s…", c, body[max(0, i-80):min(len(body), i+80)])
+		}
+	}
+	if g := text(glossary); !strings.Contains(g, string(zone.RulePlaceZone)) || !strings.Contains(g, "time zone looked up from the GPS position") {
+		t.Errorf("the glossary does not pair place_zone with its words:\n%s", g)
 	}
 }

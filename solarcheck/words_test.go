@@ -1,0 +1,48 @@
+package solarcheck
+
+import (
+	"fmt"
+	"strings"
+	"testing"
+
+	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
+)
+
+// TestClockOffsetWords: an offset of seconds to minutes is worded as a
+// clock running fast or slow, never as a changed time (issue 18: a routine
+// drift of 96 s was explained as "the camera clock was wrong, or the time
+// was changed"). Positive offsets are claimed minus evidence: a clock
+// ahead of true time runs fast (common practice).
+func TestClockOffsetWords(t *testing.T) {
+	tests := []struct {
+		sec          float64
+		want, reject string
+	}{
+		{96, "runs fast", "changed"},
+		{-96, "runs slow", "changed"},
+		{-14 * 60, "runs slow", "changed"},
+		{2 * 3600, "or the time was changed", "runs"},
+		{-40 * 60, "or the time was changed", "runs"},
+	}
+	for _, tc := range tests {
+		got := clockOffsetCause(tc.sec)
+		if !strings.Contains(got, tc.want) || strings.Contains(got, tc.reject) {
+			t.Errorf("%v s: %q, want %q and not %q", tc.sec, got, tc.want, tc.reject)
+		}
+	}
+}
+
+// TestClaimProblemWords: the reason a claimed time has no UTC instant is
+// plain English, without the zone package's codes ("zone: claim",
+// "no override").
+func TestClaimProblemWords(t *testing.T) {
+	for _, kind := range []error{zone.ErrNoBasis, zone.ErrUnknownZone, zone.ErrBadOverride, zone.ErrInvalidWall, zone.ErrInvalidCoordinates, zone.ErrZoneMap} {
+		err := fmt.Errorf("zone: claim: %w", &zone.Error{Op: "claim", Input: "2025:01:10 11:00:00", Err: fmt.Errorf("%w: no offset tag, no override, no place", kind)})
+		got := claimProblem(err)
+		for _, code := range []string{"zone:", "override", "claim"} {
+			if strings.Contains(got, code) {
+				t.Errorf("%v: %q holds the code %q", kind, got, code)
+			}
+		}
+	}
+}
