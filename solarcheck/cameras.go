@@ -29,6 +29,10 @@ type ClockInput struct {
 	// the place's legal time keeps one clock across a daylight-saving
 	// change or a journey).
 	Tagged bool
+	// PlaceZone is the IANA zone of the place ("" when unknown): a clock
+	// kept on the time of another place the camera was at is on another
+	// zone's time there.
+	PlaceZone string
 	// Offset is the photo's own time evidence in the clock's scale (the
 	// reading minus the evidence's instant), if HasEvidence; photos
 	// without keep their place in the order checks.
@@ -51,6 +55,9 @@ func (x *Examiner) ClockInput(f *Finding) (ClockInput, bool) {
 		in.Tagged = true
 	}
 	in.Reading = reading
+	if len(f.PlaceZones) > 0 {
+		in.PlaceZone = f.PlaceZones[0]
+	}
 	// The offset the claim was read with: reading = claimed + offset.
 	claimOff := reading.Sub(f.Claimed).Seconds()
 	in.Zones = []int{int(claimOff)}
@@ -91,6 +98,10 @@ type Camera struct {
 	breaks map[int32][]int
 	// resetAfter[k] is the reset that Inputs[k] is the first photo after.
 	resetAfter map[int32]int
+	// placesAt[s][offset] are the zones of the places where segment s's
+	// photos were taken with their claims read at that offset (untagged
+	// photos only): where the clock's setting was the place's time.
+	placesAt []map[int]map[string]bool
 }
 
 // Cameras are the batch's fitted cameras.
@@ -168,6 +179,20 @@ func (x *Examiner) FitCameras(inputs []ClockInput) (*Cameras, []CameraPhoto) {
 				}
 			}
 		}
+		cam.placesAt = make([]map[int]map[string]bool, len(m.Segments))
+		for k, in := range cam.Inputs {
+			sg := m.Photos[k].Segment
+			if sg < 0 || in.Tagged || in.PlaceZone == "" {
+				continue
+			}
+			if cam.placesAt[sg] == nil {
+				cam.placesAt[sg] = map[int]map[string]bool{}
+			}
+			if cam.placesAt[sg][in.Zones[0]] == nil {
+				cam.placesAt[sg][in.Zones[0]] = map[string]bool{}
+			}
+			cam.placesAt[sg][in.Zones[0]][in.PlaceZone] = true
+		}
 		cs.List = append(cs.List, cam)
 	}
 	return cs, refs
@@ -226,7 +251,7 @@ func (x *Examiner) Apply(p CameraPhoto, f *Finding) {
 		c := Check{Kind: KindCameraClock, Status: Agrees, Figure: mp.ResidualSec, HasFigure: true, Unit: "s",
 			Sentence: fmt.Sprintf("This photo agrees with its camera's clock fitted from %d other photos (residual %s).", mp.Others, signedDuration(mp.ResidualSec))}
 		if f.Verdict == DSTSlip && !cam.Tagged {
-			x.zoneByCamera(f, seg)
+			x.zoneByCamera(f, cam, mp.Segment, seg)
 		}
 		if f.Verdict == Consistent {
 			// The photo's own witnesses reach zero; the camera's clock may
@@ -249,36 +274,40 @@ func (x *Examiner) Apply(p CameraPhoto, f *Finding) {
 }
 
 // zoneByCamera names the step of a photo whose own witnesses show one hour
-// at a place that keeps daylight saving, when its camera's clock is known to
-// be set to another zone: a camera kept on its home time (UTC+01:00) in a
-// place one hour ahead is on another zone's time, not behind a
-// daylight-saving change. Both readings fit the photo's own interval; the
-// camera's other photos tell them apart. A clock set to the place's own
-// offset of the other season stays a missed daylight-saving change.
-func (x *Examiner) zoneByCamera(f *Finding, seg clock.Segment) {
-	if !seg.Zone.Decided {
+// at a place that keeps daylight saving, when its camera's clock is set to
+// the time another place kept where the same clock took other photos: a
+// camera kept on Maine time (UTC−04:00) in Halifax (UTC−03:00) is on
+// another zone's time, not behind a daylight-saving change. Both readings
+// fit the photo's own interval; the camera's other photos tell them apart.
+// A clock whose setting only this place's zone ever kept (the same place in
+// the other season) stays a missed daylight-saving change.
+func (x *Examiner) zoneByCamera(f *Finding, cam *Camera, k int, seg clock.Segment) {
+	if !seg.Zone.Decided || len(f.PlaceZones) == 0 {
 		return
 	}
 	zs := x.zoneOffsets(f, f.Claimed)
 	if len(zs) == 0 {
 		return
 	}
-	loc := zs[0].loc
-	_, now := f.Claimed.In(loc).Zone()
-	y := f.Claimed.Year()
-	_, jan := time.Date(y, 1, 15, 12, 0, 0, 0, time.UTC).In(loc).Zone()
-	_, jul := time.Date(y, 7, 15, 12, 0, 0, 0, time.UTC).In(loc).Zone()
 	z := seg.Zone.OffsetSec
+	_, now := f.Claimed.In(zs[0].loc).Zone()
 	step := float64(z - now)
-	if z == jan || z == jul || !f.Offset.Contains(step, stepSlackSec) {
+	var elsewhere []string
+	for name := range cam.placesAt[k][z] {
+		if name != f.PlaceZones[0] {
+			elsewhere = append(elsewhere, name)
+		}
+	}
+	if z == now || len(elsewhere) == 0 || !f.Offset.Contains(step, stepSlackSec) {
 		return
 	}
+	sort.Strings(elsewhere)
 	f.Rejected = append(f.Rejected, Alternative{Verdict: DSTSlip,
-		Reason: fmt.Sprintf("a missed daylight-saving change: the camera's clock was set to %s across its other photos, which is not this place's time in either season (%s, %s)", offsetLabel(z), offsetLabel(jan), offsetLabel(jul))})
+		Reason: fmt.Sprintf("a missed daylight-saving change: the camera's clock was set to %s, the time its other photos show it kept at %s", offsetLabel(z), elsewhere[0])})
 	f.Verdict, f.Basis.StepSec = ZoneSlip, step
 	sec, low, high := f.Offset.spans()
-	f.Explanation = fmt.Sprintf("The claimed time is off by %s (95 %% interval %s to %s), a whole time-zone step: the camera's clock was kept on %s, the zone its other photos show it was set to, while this place keeps %s.",
-		sec, low, high, offsetLabel(z), offsetLabel(now))
+	f.Explanation = fmt.Sprintf("The claimed time is off by %s (95 %% interval %s to %s), a whole time-zone step: the camera's clock was kept on %s, the time of %s where its other photos were taken, while this place keeps %s.",
+		sec, low, high, offsetLabel(z), elsewhere[0], offsetLabel(now))
 }
 
 // cameraOffset is the camera model's offset for input k in the photo's own

@@ -86,6 +86,9 @@ type Photo struct {
 	Path   string // relative to PhotosDir, slash-separated
 	Camera string // Camera.Key
 	SHA256 string
+	// Site is where the photo was taken: the boatyard (Place), or a site
+	// of a trip in the story.
+	Site Site
 
 	TrueUTC       time.Time     // when it was really taken
 	ClaimedWall   string        // DateTimeOriginal as written, "YYYY:MM:DD hh:mm:ss"
@@ -161,13 +164,20 @@ func Build(dir string, opt Options) (Case, error) {
 		specs[s.Key] = s
 		c.Cameras = append(c.Cameras, s.Camera)
 	}
-	counters := map[string]int{"A": 412, "B": 1001, "C": 231, "D": 77, "E": 150, "F": 2004, "G": 1}
-	obs := spa.NewObserver(PlaceLatDeg, PlaceLonDeg, PlaceElevationM)
+	counters := map[string]int{"A": 412, "B": 1001, "C": 231, "D": 77, "E": 150, "F": 2004, "G": 1, "T": 3101}
 
 	var jobs []photoJob
 	for _, sh := range script() {
 		spec := specs[sh.cam]
-		trueLocal, err := time.ParseInLocation("2006-01-02 15:04:05", sh.local, loc)
+		site := Site{Name: PlaceName, LatDeg: PlaceLatDeg, LonDeg: PlaceLonDeg, ElevationM: PlaceElevationM, Zone: PlaceZone}
+		siteLoc := loc
+		if sh.site != nil {
+			site = *sh.site
+			if siteLoc, err = db.Load(site.Zone); err != nil {
+				return Case{}, fmt.Errorf("democase: zone of %s: %w", site.Name, err)
+			}
+		}
+		trueLocal, err := time.ParseInLocation("2006-01-02 15:04:05", sh.local, siteLoc)
 		if err != nil {
 			return Case{}, fmt.Errorf("democase: script time %q: %w", sh.local, err)
 		}
@@ -177,7 +187,8 @@ func Build(dir string, opt Options) (Case, error) {
 		}
 		counters[sh.cam]++
 		jobs = append(jobs, photoJob{sh: sh, spec: spec, name: name, rel: path.Join(spec.Folder, name),
-			trueLocal: trueLocal, seed: seed, loc: loc, home: home, declDeg: decl, photosDir: c.PhotosDir, obs: obs})
+			trueLocal: trueLocal, seed: seed, loc: siteLoc, maine: loc, home: home, declDeg: decl, photosDir: c.PhotosDir,
+			obs: spa.NewObserver(site.LatDeg, site.LonDeg, site.ElevationM), site: site})
 	}
 	// Photos are independent (each has its own random stream), so they are
 	// made in parallel and gathered in script order: the output does not
@@ -227,10 +238,12 @@ type photoJob struct {
 	name, rel string
 	trueLocal time.Time
 	seed      uint64
-	loc, home *time.Location
+	loc, home *time.Location // the zone where the photo was taken; Camera C's home zone
+	maine     *time.Location // the boatyard's zone, where the traveller's clock was set
 	declDeg   float64
 	photosDir string
 	obs       spa.Observer
+	site      Site
 }
 
 // makePhoto renders one photo, writes it with its EXIF and returns its
@@ -244,11 +257,11 @@ func makePhoto(j photoJob) (Photo, [][]string, error) {
 	trueUTC := trueLocal.Add(time.Duration(ms) * time.Millisecond).UTC()
 	pos := spa.At(trueUTC, obs, spa.DeltaT(trueUTC))
 
-	p := Photo{Path: rel, Camera: sh.cam, TrueUTC: trueUTC, Fault: sh.fault, Expected: expectedVerdict(sh.fault),
+	p := Photo{Path: rel, Camera: sh.cam, Site: j.site, TrueUTC: trueUTC, Fault: sh.fault, Expected: expectedVerdict(sh.fault),
 		Outlier: sh.fault == FaultEdited, SunAzimuthDeg: pos.AzimuthDeg, SunAltitudeDeg: pos.AltitudeDeg,
 		Sunny: sh.sunny, HasGPS: spec.HasGPS, HasThumbnail: spec.thumbnail}
 
-	claimedWall, err := claimWall(sh, trueUTC, loc, home)
+	claimedWall, err := claimWall(sh, trueUTC, loc, home, j.maine)
 	if err != nil {
 		return Photo{}, nil, err
 	}
@@ -305,7 +318,7 @@ func makePhoto(j photoJob) (Photo, [][]string, error) {
 	}
 	if spec.HasGPS {
 		ep.Software = "PeloraOS 14.2"
-		ep.GPS = gpsBlock(trueUTC, ps, rng)
+		ep.GPS = gpsBlock(trueUTC, ps, j.site, rng)
 	}
 	order := binary.ByteOrder(binary.BigEndian)
 	if spec.little {
@@ -376,8 +389,9 @@ func normal(r *rand.Rand) float64 {
 	}
 }
 
-// claimWall is the wall time the camera wrote, before any offset tag.
-func claimWall(sh shot, trueUTC time.Time, loc, home *time.Location) (time.Time, error) {
+// claimWall is the wall time the camera wrote, before any offset tag: loc
+// is the zone of the place, home Camera C's zone, maine the boatyard's.
+func claimWall(sh shot, trueUTC time.Time, loc, home, maine *time.Location) (time.Time, error) {
 	local := trueUTC.In(loc)
 	var w time.Time
 	switch sh.fault {
@@ -386,6 +400,8 @@ func claimWall(sh shot, trueUTC time.Time, loc, home *time.Location) (time.Time,
 		w = trueUTC.Add(ahead).In(loc)
 	case FaultHomeZone:
 		w = trueUTC.In(home)
+	case FaultHomeTime:
+		w = trueUTC.In(maine)
 	case FaultDST:
 		// The clock kept daylight time (UTC−4) after the change to standard time.
 		w = trueUTC.In(time.FixedZone("EDT", -4*3600))
@@ -441,18 +457,18 @@ func encode(img *image.RGBA, withThumb bool) (main, thumb []byte, err error) {
 	return b.Bytes(), tb.Bytes(), nil
 }
 
-// gpsBlock is what the phone's receiver wrote: the true UTC of the fix and
-// the position a couple of metres off.
-func gpsBlock(trueUTC time.Time, ps pose, r *rand.Rand) *exifwrite.GPS {
+// gpsBlock is what the receiver wrote: the true UTC of the fix and the
+// position at the site a couple of metres off.
+func gpsBlock(trueUTC time.Time, ps pose, site Site, r *rand.Rand) *exifwrite.GPS {
 	const mPerDegLat = 111_320.0
 	dn, de := normal(r)*2, normal(r)*2
-	lat := PlaceLatDeg + (ps.Y+dn)/mPerDegLat
-	lon := PlaceLonDeg + (ps.X+de)/(mPerDegLat*math.Cos(PlaceLatDeg*math.Pi/180))
+	lat := site.LatDeg + (ps.Y+dn)/mPerDegLat
+	lon := site.LonDeg + (ps.X+de)/(mPerDegLat*math.Cos(site.LatDeg*math.Pi/180))
 	cs := trueUTC.Second()*100 + trueUTC.Nanosecond()/1e7
 	heading := math.Mod(ps.HeadingDeg+360, 360)
 	return &exifwrite.GPS{
 		LatDeg: math.Round(lat*1e6) / 1e6, LonDeg: math.Round(lon*1e6) / 1e6,
-		AltitudeM: exifwrite.Ptr(PlaceElevationM + 1.5),
+		AltitudeM: exifwrite.Ptr(site.ElevationM + 1.5),
 		DateStamp: trueUTC.Format("2006:01:02"),
 		TimeStamp: [3]exifwrite.Rational{{Num: uint32(trueUTC.Hour()), Den: 1}, {Num: uint32(trueUTC.Minute()), Den: 1},
 			{Num: uint32(cs), Den: 100}},

@@ -214,6 +214,15 @@ func TestPlantedFaults(t *testing.T) {
 				}
 				return ""
 			}},
+		{"issue 19: a GPS camera kept on Maine time (UTC-4) in Halifax (UTC-3 in daylight time, tz database)", "T", FaultHomeTime, 3, false, VerdictZoneSlip,
+			func(p Photo) string {
+				if !p.HasGPS || p.ClaimedOffset != "" {
+					return "traveller without GPS or with an offset tag"
+				}
+				return within(p.Offset, -time.Hour, time.Millisecond)
+			}},
+		{"issue 19: the same camera at the boatyard before and after the trip, clock right", "T", FaultNone, 4, false, VerdictConsistent,
+			func(p Photo) string { return within(p.Offset, 0, time.Millisecond) }},
 		{"brief: optional photo with no shadows and no GPS", "G", FaultNoEvidence, 1, false, VerdictUnverified,
 			func(p Photo) string {
 				if p.HasGPS || p.HasExposure || len(p.Shadows) > 0 || p.Sunny {
@@ -571,7 +580,7 @@ func TestExifReadsBackWithGoexif(t *testing.T) {
 		lat, lon, err := x.LatLong()
 		if p.HasGPS != (err == nil) {
 			t.Errorf("goexif %s: GPS present %v, want %v", p.Path, err == nil, p.HasGPS)
-		} else if p.HasGPS && (math.Abs(lat-PlaceLatDeg) > 5e-4 || math.Abs(lon-PlaceLonDeg) > 5e-4) {
+		} else if p.HasGPS && (math.Abs(lat-p.Site.LatDeg) > 5e-4 || math.Abs(lon-p.Site.LonDeg) > 5e-4) {
 			t.Errorf("goexif %s: GPS %.6f,%.6f not at the place", p.Path, lat, lon)
 		}
 		th, err := x.JpegThumbnail()
@@ -716,12 +725,12 @@ func TestSunAgainstPyEphem(t *testing.T) {
 	type pos struct{ az, alt float64 }
 	ref := map[string]pos{}
 	for _, rec := range recs[1:] {
-		ref[rec[0]] = pos{num(t, rec[1]), num(t, rec[2])}
+		ref[rec[0]+" "+rec[3]] = pos{num(t, rec[1]), num(t, rec[2])}
 	}
-	obs := spa.NewObserver(PlaceLatDeg, PlaceLonDeg, PlaceElevationM)
 	for _, p := range c.Photos {
+		obs := spa.NewObserver(p.Site.LatDeg, p.Site.LonDeg, p.Site.ElevationM)
 		at := p.TrueUTC.Truncate(time.Second)
-		e, ok := ref[at.Format("2006-01-02T15:04:05Z")]
+		e, ok := ref[at.Format("2006-01-02T15:04:05Z")+" "+p.Site.Zone]
 		if !ok {
 			t.Errorf("%s: %v not in testdata/sun_ephem.csv; regenerate it (see the script)", p.Path, at)
 			continue

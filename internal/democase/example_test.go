@@ -29,10 +29,10 @@ func ExampleBuild() {
 		fmt.Println(v, counts[v])
 	}
 	// Output:
-	// 30 photos from 8 sources at America/New_York
-	// consistent 12
+	// 37 photos from 9 sources at America/New_York
+	// consistent 16
 	// clock_offset 10
-	// zone_slip 4
+	// zone_slip 7
 	// dst_slip 1
 	// ampm_slip 1
 	// light_mismatch 1

@@ -16,6 +16,21 @@ const (
 	PlaceZone       = "America/New_York"
 )
 
+// Site is a place away from the boatyard where a camera of the case took
+// photos, with its IANA zone.
+type Site struct {
+	Name           string
+	LatDeg, LonDeg float64
+	ElevationM     float64
+	Zone           string
+}
+
+// Halifax, Nova Scotia: real coordinates in the city (tzf gives
+// America/Halifax there), one zone ahead of Maine (tz database: UTC−3 in
+// daylight time against New York's UTC−4), where the surveyor's camera
+// went to a boat show in the story.
+var Halifax = Site{Name: "Halifax, Nova Scotia, Canada (a trip in the story)", LatDeg: 44.6488, LonDeg: -63.5752, ElevationM: 20, Zone: "America/Halifax"}
+
 // Verdict words the audit is expected to give (the binding vocabulary of
 // the diagnosis, issue 4).
 const (
@@ -41,6 +56,9 @@ const (
 	FaultEdited     Fault = "edited"      // DateTimeOriginal altered after the fact
 	FaultNightClaim Fault = "night_claim" // a night-time claim on a daylight exposure
 	FaultNoEvidence Fault = "no_evidence" // no shadows, no GPS, no exposure: nothing to test
+	// FaultHomeTime: a camera carried to another zone without changing its
+	// clock; at home the same clock is right.
+	FaultHomeTime Fault = "home_time_abroad"
 )
 
 // Camera is one source of photos in the case.
@@ -84,6 +102,9 @@ type shot struct {
 	editBy time.Duration
 	// claimed: for FaultNightClaim, the wall time written instead.
 	claimed string
+	// site: where the photo was taken when not at the boatyard; local is
+	// then that site's wall time.
+	site *Site
 }
 
 // Camera B's clock: ahead by driftStart at driftEpoch, gaining driftPerDay.
@@ -126,6 +147,10 @@ func cameraSpecs() []cameraSpec {
 			Clock: "right; the one photo's time was typed in by hand", Folder: "brother-in-law"},
 			little: true, fNumber: 8, iso: 100, focalMM: 20, focal35: 30,
 			view: aim(-20, 11, 6, 0, 9, 430), maxObjects: 3, namePattern: "QZ1_%04d.JPG"},
+		{Camera: Camera{Key: "T", Owner: "Nils Brennick, the yard's surveyor (camera with GPS), who took it to a boat show in Halifax and back", Make: "Corvane", Model: "CX-9", Serial: "CX9-40117",
+			HasGPS: true, Clock: "right on Maine time, and kept on Maine time in Halifax (one zone ahead) during the trip", Folder: "surveyor"},
+			little: false, thumbnail: true, fNumber: 8, iso: 100, focalMM: 9, focal35: 24,
+			view: aim(16, 6, 6.5, 0, 9, 430), maxObjects: 3, namePattern: "CX9_%04d.JPG"},
 		{Camera: Camera{Key: "G", Owner: "unknown: a picture forwarded through a messaging app (metadata stripped)",
 			Clock: "unknown (only DateTimeOriginal survives)", Folder: "messaging"},
 			little: true,
@@ -140,6 +165,7 @@ func script() []shot {
 		return shot{cam: cam, local: local, fault: f, shadows: true, sunny: true}
 	}
 	noSheet := func(sh shot) shot { sh.shadows = false; return sh }
+	away := func(sh shot) shot { sh.site = &Halifax; return sh }
 	edited := s("A", "2027-10-10 08:52:30", FaultEdited)
 	edited.editBy = 2*time.Hour + 52*time.Minute
 	// F's shadows are left unmeasured, so that the exposure is the only
@@ -185,6 +211,16 @@ func script() []shot {
 		s("E", "2027-10-11 09:41:18", FaultAMPM),
 		// F: claimed to be from the storm night, taken that afternoon.
 		night,
+		// T: the surveyor's GPS camera: the yard, a trip to Halifax on its
+		// Maine clock, the yard again. Its photos are dated by their GPS
+		// clocks only (no shadows measured).
+		noSheet(s("T", "2027-09-28 10:12:40", FaultNone)),
+		noSheet(s("T", "2027-09-29 14:30:05", FaultNone)),
+		away(noSheet(s("T", "2027-10-02 11:05:51", FaultHomeTime))),
+		away(noSheet(s("T", "2027-10-03 15:41:17", FaultHomeTime))),
+		away(noSheet(s("T", "2027-10-04 09:58:33", FaultHomeTime))),
+		noSheet(s("T", "2027-10-07 13:20:09", FaultNone)),
+		noSheet(s("T", "2027-10-08 16:02:44", FaultNone)),
 		// G: stripped file, shaded close-up.
 		stripped,
 	}
@@ -195,7 +231,7 @@ func expectedVerdict(f Fault) string {
 	switch f {
 	case FaultDrift, FaultEdited:
 		return VerdictClockOffset
-	case FaultHomeZone:
+	case FaultHomeZone, FaultHomeTime:
 		return VerdictZoneSlip
 	case FaultDST:
 		return VerdictDSTSlip

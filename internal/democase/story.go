@@ -33,6 +33,14 @@ func story(c Case) string {
 	line("  latitude %.4f, longitude %.4f, elevation %.0f m, zone %s", c.Place.LatDeg, c.Place.LonDeg, c.Place.ElevationM, c.Place.Zone)
 	line("  daylight saving ended on Sunday 7 November 2027 at 02:00 local time")
 	line("  magnetic declination used in the sheet: %.1f deg (%s)", c.Place.DeclinationDeg, c.Place.DeclSource)
+	trips := map[string]bool{}
+	for _, p := range c.Photos {
+		if p.Site.Zone != c.Place.Zone && !trips[p.Site.Name] {
+			trips[p.Site.Name] = true
+			line("Also: %s", p.Site.Name)
+			line("  latitude %.4f, longitude %.4f, zone %s", p.Site.LatDeg, p.Site.LonDeg, p.Site.Zone)
+		}
+	}
 	line("")
 	line("Sources")
 	line("-------")

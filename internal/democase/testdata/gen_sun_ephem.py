@@ -10,16 +10,26 @@ seed; they are the whole-second wall times of the script in scenario.go
 converted to UTC (the seed only adds the sub-second part), and the test looks
 each photo up by that second (the Sun moves at most 0.004 deg in the dropped
 fraction). Add a line here when the script gains a photo. Place: the demo's coordinates and
-elevation. Refraction is switched off (pressure 0), so the altitude is the
+elevation, or, for the photos the surveyor's camera took on its trip, Halifax's (SITES).
+Refraction is switched off (pressure 0), so the altitude is the
 airless topocentric one; azimuth is from true north, clockwise.
 
-Columns: utc (RFC 3339), azimuth_deg, altitude_airless_deg.
+Columns: utc (RFC 3339), azimuth_deg, altitude_airless_deg, zone (the site's IANA zone).
 """
 import math
 
 import ephem
 
-LAT, LON, ELEV = "44.2306", "-69.1080", 40.0
+SITES = {
+    "America/New_York": ("44.2306", "-69.1080", 40.0),  # the boatyard
+    "America/Halifax": ("44.6488", "-63.5752", 20.0),  # the surveyor's trip
+}
+
+TRIP = [
+    "2027-10-02T14:05:51Z",
+    "2027-10-03T18:41:17Z",
+    "2027-10-04T12:58:33Z",
+]
 
 INSTANTS = [
     "2027-09-08T16:21:40Z",
@@ -52,21 +62,28 @@ INSTANTS = [
     "2027-11-03T16:36:12Z",
     "2027-11-12T16:48:05Z",
     "2027-11-12T18:25:44Z",
+    "2027-09-28T14:12:40Z",
+    "2027-09-29T18:30:05Z",
+    "2027-10-07T17:20:09Z",
+    "2027-10-08T20:02:44Z",
 ]
 
 
 def main():
-    obs = ephem.Observer()
-    obs.lat, obs.lon, obs.elevation = LAT, LON, ELEV
-    obs.pressure = 0  # no refraction: airless altitude
     sun = ephem.Sun()
     print("# Sun positions from PyEphem %s (python3-ephem) via testdata/gen_sun_ephem.py" % ephem.__version__)
-    print("# place %s, %s, %.0f m; pressure 0 (airless); azimuth clockwise from true north" % (LAT, LON, ELEV))
-    print("utc,azimuth_deg,altitude_airless_deg")
-    for t in INSTANTS:
+    print("# places: %s; pressure 0 (airless); azimuth clockwise from true north" %
+          "; ".join("%s %s, %s, %.0f m" % (z, *SITES[z]) for z in sorted(SITES)))
+    print("utc,azimuth_deg,altitude_airless_deg,zone")
+    rows = [(t, "America/New_York") for t in INSTANTS] + [(t, "America/Halifax") for t in TRIP]
+    for t, zone in rows:
+        lat, lon, elev = SITES[zone]
+        obs = ephem.Observer()
+        obs.lat, obs.lon, obs.elevation = lat, lon, elev
+        obs.pressure = 0  # no refraction: airless altitude
         obs.date = ephem.Date(t.replace("T", " ").rstrip("Z"))
         sun.compute(obs)
-        print("%s,%.5f,%.5f" % (t, math.degrees(sun.az), math.degrees(sun.alt)))
+        print("%s,%.5f,%.5f,%s" % (t, math.degrees(sun.az), math.degrees(sun.alt), zone))
 
 
 if __name__ == "__main__":
