@@ -4,9 +4,13 @@ import (
 	"fmt"
 	"github.com/gnomon-forensics/gnomon/internal/figure"
 	"math"
+	"sort"
+	"strings"
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/exifread"
+	"github.com/gnomon-forensics/gnomon/internal/chisq"
+	"github.com/gnomon-forensics/gnomon/internal/sphere"
 	"github.com/gnomon-forensics/gnomon/solarcheck/invert"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
 )
@@ -45,7 +49,7 @@ func (x *Examiner) checkShadows(f *Finding, p Photo) {
 	}
 	m, spread, dof := combine(ds)
 	if dof > 0 {
-		lim := chi2P95(dof)
+		lim := chisq.P95(dof)
 		st, s := Agrees, fmt.Sprintf("The %d measured objects agree with each other (spread χ² %.1f for %d degrees of freedom, 95 %% limit %.1f).", len(ds), spread, dof, lim)
 		if spread > lim {
 			st, s = Conflicts, fmt.Sprintf("The %d measured objects disagree with each other more than their stated uncertainties allow (χ² %.1f for %d degrees of freedom, 95 %% limit %.1f): re-check the measurements.", len(ds), spread, dof, lim)
@@ -66,34 +70,28 @@ func (x *Examiner) checkShadows(f *Finding, p Photo) {
 
 	obs := spa.NewObserver(f.LatDeg, f.LonDeg, f.ElevationM)
 	q := invert.Query{Observer: obs, From: f.Claimed.Add(-searchHalfSpan), To: f.Claimed.Add(searchHalfSpan), Measurement: m, DeltaT: x.deltaTFunc()}
-	ws, err := invert.When(q)
+	res, err := invert.When(q)
 	if err != nil {
 		f.check(Check{Kind: KindShadowTime, Status: Skipped, Sentence: "The shadow time search failed: " + err.Error() + "."})
 		return
 	}
-	loose := false
-	if len(ws) == 0 {
-		// Nothing fits at the 95 % level near the claim. Before looking at
-		// other seasons, see whether the measurements fit with their
-		// uncertainties doubled: a rough measurement should not be
-		// mistaken for a wrong date.
-		lq := q
-		lq.Measurement.AzimuthSDDeg *= 2
-		lq.Measurement.AltitudeSDDeg *= 2
-		if ws, err = invert.When(lq); err != nil || len(ws) == 0 {
-			x.seasonCheck(f, q)
-			return
-		}
-		loose = true
+	if len(res.Windows) == 0 {
+		// The measurement fits the sun at no time near the claim: the
+		// window of a misfit says nothing about the time, so none is
+		// given; other seasons are searched instead. The stated
+		// uncertainties are used as given, never inflated.
+		x.seasonCheck(f, q, res.Closest)
+		return
 	}
-	w := nearestWindow(ws, f.Claimed)
+	w := nearestWindow(res.Windows, f.Claimed)
+	fit := windowFit(w)
 	iv := Interval{
 		Sec:     f.Claimed.Sub(w.Best).Seconds(),
 		LowSec:  f.Claimed.Sub(w.Latest).Seconds(),
 		HighSec: f.Claimed.Sub(w.Earliest).Seconds(),
 	}
 	f.BestFit = &SunSample{Time: w.Best, AzimuthDeg: w.AzimuthDeg, AltitudeDeg: w.AltitudeDeg}
-	c := Check{Kind: KindShadowTime, Figure: iv.Sec, HasFigure: true, Unit: "s", Uncertainty: iv.HalfWidth(), HasUncertainty: true}
+	c := Check{Kind: KindShadowTime, Figure: iv.Sec, HasFigure: true, Unit: "s", Uncertainty: iv.HalfWidth(), HasUncertainty: true, Fit: &fit}
 	if iv.Contains(0, 0) {
 		c.Status = Agrees
 		c.Sentence = fmt.Sprintf("The shadows fit the claimed moment: the best-fitting time is %s from it, and the claim lies inside the 95 %% window (%s to %s UTC).",
@@ -103,38 +101,143 @@ func (x *Examiner) checkShadows(f *Finding, p Photo) {
 		c.Sentence = fmt.Sprintf("The shadows fit %s UTC best (95 %% window %s to %s); the claim is %s from that.",
 			w.Best.Format("2006-01-02 15:04:05"), w.Earliest.Format("15:04:05"), w.Latest.Format("15:04:05"), figure.Span(iv.Sec, iv.HalfWidth()))
 	}
-	if len(ws) > 1 {
-		c.Sentence += fmt.Sprintf(" %d windows fit within ±14 h; the one nearest the claim is used.", len(ws))
-	}
-	if loose {
-		c.Sentence += " The measurements fit the sun only with their stated uncertainties doubled; the window is given on that basis."
+	c.Sentence += " At the best time the measurement fits the sun " + fitPhrase(fit) + "."
+	if len(res.Windows) > 1 {
+		c.Sentence += fmt.Sprintf(" %d windows fit within ±14 h; the one nearest the claim is used.", len(res.Windows))
 	}
 	f.check(c)
 	f.Basis.ShadowOffset = &iv
 }
 
-// seasonCheck runs when no time within ±14 h of the claim fits the shadows:
-// it searches the half-year either side for dates on which the sun could
-// have cast them.
-func (x *Examiner) seasonCheck(f *Finding, q invert.Query) {
+// windowFit is the goodness of fit at a window's best time.
+func windowFit(w invert.Window) Fit { return Fit{Chi2: w.Misfit, Dof: w.Dof, PValue: w.PValue} }
+
+// fitPhrase says a fit in plain words: the misfit, its degrees of freedom
+// and how often chance alone gives one as large.
+func fitPhrase(fit Fit) string {
+	dof := "degrees"
+	if fit.Dof == 1 {
+		dof = "degree"
+	}
+	chance := fmt.Sprintf("%.0f %%", 100*fit.PValue)
+	switch {
+	case fit.PValue < 0.001:
+		chance = "less than 0.1 %"
+	case fit.PValue < 0.095:
+		chance = fmt.Sprintf("%.1f %%", 100*fit.PValue)
+	}
+	return fmt.Sprintf("(misfit χ² %.1f with %d %s of freedom; chance alone gives a misfit this large in %s of honest measurements)", fit.Chi2, fit.Dof, dof, chance)
+}
+
+// seasonCheck runs when no time within ±14 h of the claim fits the shadows
+// (near is the closest time there, if the sun was up at all): it searches
+// the half-year either side for the dates on which the sun could have cast
+// them, and reports every band of such dates, nearest first. The sun's
+// declination repeats about each solstice, so a direction usually fits in
+// two bands a year.
+func (x *Examiner) seasonCheck(f *Finding, q invert.Query, near *invert.Window) {
+	nearText := "the sun never stood high enough near the claim for shadows"
+	var nearFit *Fit
+	if near != nil {
+		fit := windowFit(*near)
+		nearFit = &fit
+		nearText = "the closest fit near the claim has " + strings.Trim(fitPhrase(fit), "()")
+	}
 	q.From, q.To = f.Claimed.AddDate(0, 0, -182), f.Claimed.AddDate(0, 0, 182)
-	ws, err := invert.When(q)
-	c := Check{Kind: KindShadowTime, Status: Conflicts}
+	res, err := invert.When(q)
+	c := Check{Kind: KindShadowTime, Status: Conflicts, Fit: nearFit}
 	switch {
 	case err != nil:
-		c.Sentence = "No time near the claim fits the shadows, and the year-long search failed: " + err.Error() + "."
-	case len(ws) == 0:
-		c.Sentence = "No time within half a year of the claim fits the shadows at this place: the place or the measurements may be wrong."
+		c.Sentence = "No time near the claim fits the shadows (" + nearText + "), and the year-long search failed: " + err.Error() + "."
+	case len(res.Windows) == 0:
+		c.Sentence = "The shadows fit the sun at no time within half a year of the claim at this place (" + nearText + "): the measurements or the place are likely wrong, and the shadows say nothing about the time."
+		f.Basis.ShadowMisfit = true
 	default:
-		near := nearestWindow(ws, f.Claimed)
-		days := f.Claimed.Sub(near.Best).Hours() / 24
-		c.Figure, c.HasFigure, c.Unit = days, true, "days"
-		c.Sentence = fmt.Sprintf("No time on or near the claimed date fits the shadows; the nearest date on which the sun stood so is %s (%.0f days from the claim), which points to a different season.",
-			near.Best.Format("2006-01-02"), math.Abs(days))
+		bands := dateBands(res.Windows, f.LonDeg, f.Claimed)
+		f.SeasonBands = bands
+		c.Figure, c.HasFigure, c.Unit = bands[0].DaysFromClaim, true, "days"
+		parts := make([]string, len(bands))
+		for i, b := range bands {
+			parts[i] = fmt.Sprintf("%s (%s)", bandText(b), daysText(b.DaysFromClaim))
+		}
+		c.Sentence = fmt.Sprintf("No time on or near the claimed date fits the shadows (%s). Within half a year they fit the sun at this place only on %s, which points to a different season.",
+			nearText, listText(parts))
 		f.Basis.SeasonOff = true
-		f.BestFit = &SunSample{Time: near.Best, AzimuthDeg: near.AzimuthDeg, AltitudeDeg: near.AltitudeDeg}
+		best := bands[0].Best
+		f.BestFit = &best
 	}
 	f.check(c)
+}
+
+// dateBands groups fitting windows into runs of consecutive local solar
+// dates (UTC shifted by the longitude, 4 min per degree, so that a day's
+// windows share a date), sorted by distance from the claim, nearest first.
+func dateBands(ws []invert.Window, lonDeg float64, claimed time.Time) []DateBand {
+	shift := time.Duration(lonDeg / 15 * float64(time.Hour))
+	solarDate := func(t time.Time) time.Time { return t.Add(shift).UTC().Truncate(24 * time.Hour) }
+	var bands []DateBand
+	for _, w := range ws {
+		d := solarDate(w.Best)
+		fit := windowFit(w)
+		best := SunSample{Time: w.Best, AzimuthDeg: w.AzimuthDeg, AltitudeDeg: w.AltitudeDeg}
+		if n := len(bands); n > 0 && d.Sub(bands[n-1].Last) <= 24*time.Hour {
+			b := &bands[n-1]
+			b.Last = d
+			if fit.Chi2 < b.Fit.Chi2 {
+				b.Best, b.Fit = best, fit
+			}
+			continue
+		}
+		bands = append(bands, DateBand{First: d, Last: d, Best: best, Fit: fit})
+	}
+	for i := range bands {
+		bands[i].DaysFromClaim = bandDays(bands[i], claimed)
+	}
+	sort.SliceStable(bands, func(i, j int) bool { return math.Abs(bands[i].DaysFromClaim) < math.Abs(bands[j].DaysFromClaim) })
+	return bands
+}
+
+// bandDays is the signed number of days from the band to the claim's
+// date: positive when the band lies before the claim, 0 when it holds it.
+func bandDays(b DateBand, claimed time.Time) float64 {
+	c := claimed.UTC().Truncate(24 * time.Hour)
+	switch {
+	case c.Before(b.First):
+		return -b.First.Sub(c).Hours() / 24
+	case c.After(b.Last):
+		return c.Sub(b.Last).Hours() / 24
+	}
+	return 0
+}
+
+func bandText(b DateBand) string {
+	if b.First.Equal(b.Last) {
+		return b.First.Format(time.DateOnly)
+	}
+	return b.First.Format(time.DateOnly) + " to " + b.Last.Format(time.DateOnly)
+}
+
+func daysText(d float64) string {
+	n := int(math.Round(math.Abs(d)))
+	unit := "days"
+	if n == 1 {
+		unit = "day"
+	}
+	switch {
+	case d > 0:
+		return fmt.Sprintf("ending %d %s before the claimed date", n, unit)
+	case d < 0:
+		return fmt.Sprintf("starting %d %s after the claimed date", n, unit)
+	}
+	return "holding the claimed date"
+}
+
+// listText joins phrases as "a", "a and b", "a, b and c".
+func listText(parts []string) string {
+	if len(parts) <= 1 {
+		return strings.Join(parts, "")
+	}
+	return strings.Join(parts[:len(parts)-1], ", ") + " and " + parts[len(parts)-1]
 }
 
 func (x *Examiner) deltaTFunc() func(time.Time) float64 {
@@ -250,12 +353,12 @@ func (x *Examiner) checkShadowPlace(f *Finding, rec exifread.Record) {
 	// pole; the one nearer the GPS tag is the fair comparison.
 	fix := fixes[0]
 	for _, o := range fixes[1:] {
-		if greatCircleKm(f.LatDeg, f.LonDeg, o.LatDeg, o.LonDeg) < greatCircleKm(f.LatDeg, f.LonDeg, fix.LatDeg, fix.LonDeg) {
+		if sphere.DistanceKm(f.LatDeg, f.LonDeg, o.LatDeg, o.LonDeg) < sphere.DistanceKm(f.LatDeg, f.LonDeg, fix.LatDeg, fix.LonDeg) {
 			fix = o
 		}
 	}
 	f.ShadowFix = &Fix{LatDeg: fix.LatDeg, LonDeg: fix.LonDeg, RadiusKm: fix.RadiusKm}
-	dist := greatCircleKm(f.LatDeg, f.LonDeg, fix.LatDeg, fix.LonDeg)
+	dist := sphere.DistanceKm(f.LatDeg, f.LonDeg, fix.LatDeg, fix.LonDeg)
 	c := Check{Kind: KindShadowPlace, Figure: dist, HasFigure: true, Unit: "km", Uncertainty: fix.RadiusKm, HasUncertainty: true}
 	if dist <= fix.RadiusKm {
 		c.Status = Agrees
@@ -265,15 +368,6 @@ func (x *Examiner) checkShadowPlace(f *Finding, rec exifread.Record) {
 		c.Sentence = fmt.Sprintf("At the GPS time the shadows place the camera %.0f km from its GPS tag, beyond their 95 %% radius of %.0f km.", dist, fix.RadiusKm)
 	}
 	f.check(c)
-}
-
-// greatCircleKm is the haversine distance on a sphere of radius 6371 km.
-func greatCircleKm(lat1, lon1, lat2, lon2 float64) float64 {
-	const r = 6371.0
-	p1, p2 := lat1*math.Pi/180, lat2*math.Pi/180
-	dp, dl := p2-p1, (lon2-lon1)*math.Pi/180
-	a := math.Sin(dp/2)*math.Sin(dp/2) + math.Cos(p1)*math.Cos(p2)*math.Sin(dl/2)*math.Sin(dl/2)
-	return 2 * r * math.Asin(math.Min(1, math.Sqrt(a)))
 }
 
 // offsetLabel formats an offset from UTC as "UTC+05:30".

@@ -6,6 +6,8 @@ import (
 	"sort"
 	"strings"
 	"time"
+
+	"github.com/gnomon-forensics/gnomon/solarcheck/clock"
 )
 
 // stepSlackSec is how close the evidence interval must come to a whole step
@@ -36,10 +38,17 @@ func diagnose(f *Finding, x *Examiner) {
 		}
 		return
 	}
+	reset := factoryDateSentence(f)
 	if f.Basis.SeasonOff {
 		c, _ := f.Check(KindShadowTime)
 		f.Verdict = SeasonMismatch
-		f.Explanation = c.Sentence
+		f.Explanation = reset + c.Sentence
+		return
+	}
+	if iv == nil && f.Basis.ShadowMisfit {
+		c, _ := f.Check(KindShadowTime)
+		f.Verdict = Unverified
+		f.Explanation = c.Sentence + " No other witness fixes the time; it is neither confirmed nor contradicted."
 		return
 	}
 	if iv == nil {
@@ -60,6 +69,30 @@ func diagnose(f *Finding, x *Examiner) {
 	}
 	f.setOffset(*iv)
 	x.judgeOffset(f, *iv, source)
+	if f.Verdict != Consistent && reset != "" {
+		f.Explanation = reset + f.Explanation
+	}
+	if f.Basis.ShadowMisfit {
+		f.Explanation += " The shadows were not used: they fit the sun at no time within half a year of the claim."
+	}
+}
+
+// factoryDateSentence names a camera clock reset as the explanation when
+// the capture date is a factory default (clock.FactoryEpoch), and marks
+// the finding; "" otherwise. It is said only beside evidence that the time
+// is wrong: the date alone is a hint.
+func factoryDateSentence(f *Finding) string {
+	if f.Wall.IsZero() {
+		return ""
+	}
+	w := f.Wall
+	epoch, ok := clock.FactoryEpoch(time.Date(w.Year, w.Month, w.Day, w.Hour, w.Minute, w.Second, 0, time.UTC))
+	if !ok {
+		return ""
+	}
+	f.FactoryDate = true
+	return fmt.Sprintf("The camera's date (%04d-%02d-%02d %02d:%02d) is at or just after %s, a date camera clocks fall back to when reset: the clock was most likely reset and not set again, so its date says nothing about when the photo was taken. ",
+		w.Year, int(w.Month), w.Day, w.Hour, w.Minute, epoch.Format(time.DateOnly))
 }
 
 // timeEvidence returns the interval the time witnesses give, and names them.
@@ -206,6 +239,7 @@ func (x *Examiner) hypotheses(f *Finding, iv Interval) []hypothesis {
 			continue // no zone kept that offset on that day
 		}
 		label := fmt.Sprintf("the time of a zone at %s", offsetLabel(home))
+		zones = rankZones(zones, zs)
 		if len(zones) > 3 {
 			zones = zones[:3]
 		}
@@ -215,6 +249,38 @@ func (x *Examiner) hypotheses(f *Finding, iv Interval) []hypothesis {
 		hs = append(hs, hypothesis{ZoneSlip, s, label})
 	}
 	return hs
+}
+
+// rankZones orders the example zones of a zone step by relevance: zones
+// of the place's own region first (the part of the IANA name before the
+// first "/", e.g. Europe; the embedded tz data carries no zone.tab with
+// country codes), then the other regional zones, then the Etc/ ones, each
+// group in the database's order. Zones where the same camera's other
+// photos were taken would rank higher still, but a photo is examined
+// alone, before its camera's model exists, so they are not known here.
+func rankZones(zones []string, place []zoneAt) []string {
+	region := func(name string) string {
+		if i := strings.IndexByte(name, '/'); i > 0 {
+			return name[:i]
+		}
+		return name
+	}
+	home := map[string]bool{}
+	for _, z := range place {
+		home[region(z.name)] = true
+	}
+	rank := func(name string) int {
+		switch {
+		case strings.HasPrefix(name, "Etc/"):
+			return 2
+		case home[region(name)]:
+			return 0
+		}
+		return 1
+	}
+	out := append([]string(nil), zones...)
+	sort.SliceStable(out, func(i, j int) bool { return rank(out[i]) < rank(out[j]) })
+	return out
 }
 
 func secDur(s float64) time.Duration { return time.Duration(math.Round(s * 1e9)) }

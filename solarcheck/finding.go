@@ -66,7 +66,35 @@ type Check struct {
 	// Uncertainty is the half-width of the figure's 95 % interval, same unit.
 	Uncertainty    float64
 	HasUncertainty bool
-	Sentence       string
+	// Fit is the goodness of fit behind the figure, for checks that fit a
+	// measurement (shadow_time); nil for the others.
+	Fit      *Fit
+	Sentence string
+}
+
+// Fit is how well a measurement fits the sun at its best-fitting time: the
+// misfit χ², its degrees of freedom, and the p-value, the chance of a
+// misfit at least this large if the measurement and its stated errors are
+// right. A p-value below 0.05 means the measurement and the sun disagree
+// at every time searched (the 95 % convention).
+type Fit struct {
+	Chi2   float64
+	Dof    int
+	PValue float64
+}
+
+// DateBand is a run of consecutive dates on which the measured sun
+// direction fits the sun at the place (p ≥ 0.05), with the best-fitting
+// time in it. First and Last are dates (midnight UTC of the local solar
+// date).
+type DateBand struct {
+	First, Last time.Time
+	// DaysFromClaim is the signed number of days from the band to the
+	// claimed date: positive when the band lies before it (claimed minus
+	// evidence, like every offset).
+	DaysFromClaim float64
+	Best          SunSample
+	Fit           Fit
 }
 
 // Interval is a time offset in seconds (claimed minus evidence) with its 95 %
@@ -160,6 +188,12 @@ type Finding struct {
 	Explanation string
 	Rejected    []Alternative
 	ShadowFix   *Fix
+	// SeasonBands are the date ranges on which the shadows fit the sun,
+	// nearest the claim first, when no time near the claim does.
+	SeasonBands []DateBand
+	// FactoryDate marks a capture date that looks like a camera clock
+	// reset to its factory default (clock.FactoryEpoch).
+	FactoryDate bool
 
 	// FromCamera marks a corrected window that comes from the camera's
 	// clock model rather than the photo's own witnesses.
@@ -178,6 +212,7 @@ type Basis struct {
 	ShadowOffset *Interval // from the shadows, nil without
 	GPSOffset    *Interval // from the GPS clock, nil without
 	SeasonOff    bool      // shadows fit another season only
+	ShadowMisfit bool      // shadows fit the sun at no time within half a year
 	LightOff     bool      // the exposure conflicts with the light at the claim
 	StepSec      float64   // the step (zone, DST, 12 h) the verdict names; 0 for none
 	PlaceNote    string    // why a GPS position in the file was not used, as a sentence

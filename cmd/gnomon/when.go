@@ -3,13 +3,16 @@ package main
 import (
 	"encoding/json"
 	"errors"
+	"flag"
 	"fmt"
 	"io"
 	"math"
+	"strconv"
 	"strings"
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/internal/angle"
+	"github.com/gnomon-forensics/gnomon/internal/chisq"
 	"github.com/gnomon-forensics/gnomon/solarcheck/invert"
 	"github.com/gnomon-forensics/gnomon/solarcheck/shadow"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
@@ -23,13 +26,17 @@ where a measurement puts it: a sun azimuth and/or altitude, or the shadow of a
 vertical object (height, shadow length along the ground and shadow bearing
 from base to tip, optionally on ground sloping down toward --slope-toward).
 
-Each match is a 95 % window: the times at which the sun's position (NREL
-SPA, refracted altitude, standard atmosphere, sea level) is consistent with
-the measurement, chi-square below 3.841 for one angle or 5.991 for two; "best"
-is the time of least misfit. It is a consistency set, not a probability for
-the time. Altitude alone usually fits twice a day; near noon the two windows
-can merge. Only times with the sun above the horizon match. Searching is done
-on a 1-minute grid and refined to about 1 s.
+Each match is a 95 % window about a time of least misfit ("best"): the
+times whose misfit chi-square exceeds the best one's by less than 3.841 (the
+profile interval for the one unknown, the time; NREL SPA sun, refracted
+altitude, standard atmosphere, sea level). Beside it stand the misfit at the
+best time, its degrees of freedom (angles measured less one, at least one)
+and its p-value: a match is listed only when the p-value is at least 0.05.
+When no time fits, the closest time is shown with its misfit: the
+measurement and the sun disagree at every time in the range. Altitude alone
+usually fits twice a day; near noon the two windows can merge. Only times
+with the sun above the horizon match. Searching is done on a 1-minute grid
+and refined to about 1 s.
 
 Dates are UTC calendar days unless --zone names an IANA zone; at most three
 years. Uncertainties are 1-sigma: defaults 1° for azimuth and altitude, 2° for
@@ -47,11 +54,38 @@ type whenMatchJSON struct {
 	Latest   string  `json:"latest"`
 	Azimuth  float64 `json:"azimuth"`
 	Altitude float64 `json:"altitude"`
-	Misfit   float64 `json:"misfit"`
+	// Misfit is χ² at best, MisfitDof its degrees of freedom and PValue
+	// the chance of a misfit at least as large from an honest measurement.
+	Misfit    float64 `json:"misfit"`
+	MisfitDof int     `json:"misfit_dof"`
+	PValue    float64 `json:"p_value"`
+	Fits      bool    `json:"fits"`
+}
+
+// whenQueryJSON echoes the question as understood: the place, the days,
+// the zone, the inputs as given and the sun direction they make.
+type whenQueryJSON struct {
+	Lat  float64 `json:"lat"`
+	Lon  float64 `json:"lon"`
+	From string  `json:"from"`
+	To   string  `json:"to"`
+	Zone string  `json:"zone"`
+	// Inputs are the measurement flags given, by name without dashes.
+	Inputs map[string]float64 `json:"inputs"`
+	// The measured sun direction (1-sigma), null where not measured.
+	Azimuth     *float64 `json:"azimuth"`
+	AzimuthSD   *float64 `json:"azimuth_sd"`
+	Altitude    *float64 `json:"altitude"`
+	AltitudeSD  *float64 `json:"altitude_sd"`
+	Correlation float64  `json:"correlation"`
 }
 
 type whenJSON struct {
+	Query   whenQueryJSON   `json:"query"`
 	Matches []whenMatchJSON `json:"matches"`
+	// Closest is the time of least misfit when no time fits (null when
+	// something fits, or when the sun never rose in the range).
+	Closest *whenMatchJSON `json:"closest"`
 	// Notes say where a midnight bounding the days was skipped or repeated
 	// in --zone, and which instant was taken.
 	Notes []string `json:"notes,omitempty"`
@@ -230,7 +264,7 @@ func runWhen(e env, args []string) int {
 		return usageErr(fs, "a measurement is required: --azimuth and/or --altitude, or a shadow")
 	}
 
-	ws, err := invert.When(invert.Query{
+	res, err := invert.When(invert.Query{
 		Observer:    spa.NewObserver(*lat, *lon, 0),
 		From:        start,
 		To:          end,
@@ -242,14 +276,13 @@ func runWhen(e env, args []string) int {
 	if err != nil {
 		return fail(e.stderr, "when", err)
 	}
-	out := whenJSON{Matches: []whenMatchJSON{}, Notes: dayNotes}
-	for _, w := range ws {
-		out.Matches = append(out.Matches, whenMatchJSON{
-			Best: w.Best.UTC().Format(time.RFC3339), Earliest: w.Earliest.UTC().Format(time.RFC3339),
-			Latest: w.Latest.UTC().Format(time.RFC3339),
-			// SPA is good to 0.0003°; four decimals keep that and no more.
-			Azimuth: roundTo(w.AzimuthDeg, 4), Altitude: roundTo(w.AltitudeDeg, 4), Misfit: roundTo(w.Misfit, 3),
-		})
+	out := whenJSON{Query: whenQuery(fs, *lat, *lon, d0, d1, loc, m), Matches: []whenMatchJSON{}, Notes: dayNotes}
+	for _, w := range res.Windows {
+		out.Matches = append(out.Matches, whenMatch(w))
+	}
+	if len(res.Windows) == 0 && res.Closest != nil {
+		c := whenMatch(*res.Closest)
+		out.Closest = &c
 	}
 	if *asJSON {
 		enc := json.NewEncoder(e.stdout)
@@ -259,15 +292,48 @@ func runWhen(e env, args []string) int {
 		}
 		return exitOK
 	}
-	if err := writeWhenTable(e.stdout, m, from0, *lat, *lon, d0, d1, loc, dayNotes, ws); err != nil {
+	if err := writeWhenTable(e.stdout, m, from0, *lat, *lon, d0, d1, loc, dayNotes, res); err != nil {
 		return fail(e.stderr, "when", fmt.Errorf("write output: %w", err))
 	}
 	return exitOK
 }
 
+// whenMatch is the JSON form of a window.
+func whenMatch(w invert.Window) whenMatchJSON {
+	return whenMatchJSON{
+		Best: w.Best.UTC().Format(time.RFC3339), Earliest: w.Earliest.UTC().Format(time.RFC3339),
+		Latest: w.Latest.UTC().Format(time.RFC3339),
+		// SPA is good to 0.0003°; four decimals keep that and no more.
+		Azimuth: roundTo(w.AzimuthDeg, 4), Altitude: roundTo(w.AltitudeDeg, 4),
+		Misfit: roundTo(w.Misfit, 3), MisfitDof: w.Dof, PValue: roundTo(w.PValue, 4), Fits: w.Fits(),
+	}
+}
+
+// whenQuery echoes the query: the flags given and the measurement made of them.
+func whenQuery(fs *flag.FlagSet, lat, lon float64, d0, d1 string, loc *time.Location, m invert.Measurement) whenQueryJSON {
+	q := whenQueryJSON{Lat: lat, Lon: lon, From: d0, To: d1, Zone: loc.String(), Inputs: map[string]float64{}, Correlation: roundTo(m.Correlation, 4)}
+	fs.Visit(func(f *flag.Flag) {
+		if g, ok := f.Value.(flag.Getter); ok {
+			if v, ok := g.Get().(float64); ok && f.Name != "lat" && f.Name != "lon" {
+				q.Inputs[f.Name] = v
+			}
+		}
+	})
+	if m.HasAzimuth {
+		q.Azimuth, q.AzimuthSD = ptrTo(roundTo(m.AzimuthDeg, 4)), ptrTo(roundTo(m.AzimuthSDDeg, 4))
+	}
+	if m.HasAltitude {
+		q.Altitude, q.AltitudeSD = ptrTo(roundTo(m.AltitudeDeg, 4)), ptrTo(roundTo(m.AltitudeSDDeg, 4))
+	}
+	return q
+}
+
+func ptrTo(x float64) *float64 { return &x }
+
 // writeWhenTable prints the readable form: what was measured, then one
 // aligned row per window.
-func writeWhenTable(w io.Writer, m invert.Measurement, source string, lat, lon float64, d0, d1 string, loc *time.Location, notes []string, ws []invert.Window) error {
+func writeWhenTable(w io.Writer, m invert.Measurement, source string, lat, lon float64, d0, d1 string, loc *time.Location, notes []string, res invert.Result) error {
+	ws := res.Windows
 	var b strings.Builder
 	var parts []string
 	if m.HasAzimuth {
@@ -285,15 +351,27 @@ func writeWhenTable(w io.Writer, m invert.Measurement, source string, lat, lon f
 	for _, n := range notes {
 		fmt.Fprintf(&b, "%-10s %s\n", "note", n)
 	}
-	fmt.Fprintf(&b, "%-10s misfit χ² below %.3f (%d dof, 95 %%); sun above the horizon\n", "match", m.Threshold(), m.Dof())
+	fmt.Fprintf(&b, "%-10s misfit at the best time with p ≥ 0.05 (χ² below %.3f, %d dof); window: χ² within %.3f of the best; sun above the horizon\n",
+		"match", chisq.Point(invert.FitLevel, m.FitDof()), m.FitDof(), chisq.P95(invert.ProfileDof))
 	if len(ws) == 0 {
-		b.WriteString("\nno time in the range fits the measurement\n")
+		b.WriteString("\nno time in the range fits the measurement")
+		if c := res.Closest; c != nil {
+			p := "p = " + pText(c.PValue)
+			if c.PValue < 0.001 {
+				p = "p < 0.001"
+			}
+			fmt.Fprintf(&b, ": the measurement and the sun disagree at every time. The closest is %s (sun azimuth %.2f°, altitude %.2f°) with misfit χ² %.1f on %d dof (%s).",
+				c.Best.UTC().Format(time.RFC3339), c.AzimuthDeg, c.AltitudeDeg, c.Misfit, c.Dof, p)
+		} else {
+			b.WriteString(": the sun was below the horizon throughout.")
+		}
+		b.WriteString("\n")
 		_, err := io.WriteString(w, b.String())
 		return err
 	}
 	local := loc != time.UTC
 	b.WriteString("\n")
-	header := fmt.Sprintf("%3s  %-20s  %-20s  %-20s  %10s  %10s  %6s", "#", "earliest (UTC)", "best (UTC)", "latest (UTC)", "azimuth °", "altitude °", "χ²")
+	header := fmt.Sprintf("%3s  %-20s  %-20s  %-20s  %10s  %10s  %6s  %7s", "#", "earliest (UTC)", "best (UTC)", "latest (UTC)", "azimuth °", "altitude °", "χ²", "p")
 	if local {
 		header += "  best (local)"
 	}
@@ -306,9 +384,9 @@ func writeWhenTable(w io.Writer, m invert.Measurement, source string, lat, lon f
 		if x.EndsAfter {
 			note += "  (ends after the range)"
 		}
-		row := fmt.Sprintf("%3d  %-20s  %-20s  %-20s  %10.4f  %10.4f  %6.3f", i+1,
+		row := fmt.Sprintf("%3d  %-20s  %-20s  %-20s  %10.4f  %10.4f  %6.3f  %7s", i+1,
 			x.Earliest.UTC().Format(time.RFC3339), x.Best.UTC().Format(time.RFC3339), x.Latest.UTC().Format(time.RFC3339),
-			x.AzimuthDeg, x.AltitudeDeg, x.Misfit)
+			x.AzimuthDeg, x.AltitudeDeg, x.Misfit, pText(x.PValue))
 		if local {
 			row += "  " + x.Best.In(loc).Format("2006-01-02 15:04:05 MST")
 		}
@@ -316,6 +394,14 @@ func writeWhenTable(w io.Writer, m invert.Measurement, source string, lat, lon f
 	}
 	_, err := io.WriteString(w, b.String())
 	return err
+}
+
+// pText prints a p-value to two significant places, and tiny ones as a bound.
+func pText(p float64) string {
+	if p < 0.001 {
+		return "< 0.001"
+	}
+	return strconv.FormatFloat(p, 'g', 2, 64)
 }
 
 // roundTo rounds x to the given number of decimal places.

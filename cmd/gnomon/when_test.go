@@ -177,12 +177,52 @@ func TestWhenNothingFits(t *testing.T) {
 	}
 }
 
+// TestWhenJSONEchoesQuery: --json repeats the question (place, days,
+// zone, inputs as given, the sun direction they make), and a measurement
+// that fits no time gets no match but its closest time with the misfit.
+// At 48.85° N the sun climbs to at most 64.6° (90° − 48.85° + 23.44°;
+// common knowledge), so an altitude of 70° fits no time.
+func TestWhenJSONEchoesQuery(t *testing.T) {
+	code, out, stderr := captureRun("when", "--lat", "48.85", "--lon", "2.35", "--date", "2024-06-03", "--azimuth", "-242.6", "--altitude", "70", "--altitude-sd", "0.5", "--zone", "Europe/Paris", "--json")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	var doc struct {
+		Query struct {
+			Lat, Lon       float64
+			From, To, Zone string
+			Inputs         map[string]float64
+			Azimuth        *float64
+			AltitudeSD     *float64 `json:"altitude_sd"`
+		}
+		Matches []map[string]any
+		Closest *struct {
+			Misfit    float64
+			MisfitDof int     `json:"misfit_dof"`
+			PValue    float64 `json:"p_value"`
+			Fits      bool
+		}
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatalf("%v\n%s", err, out)
+	}
+	q := doc.Query
+	if q.Lat != 48.85 || q.Lon != 2.35 || q.From != "2024-06-03" || q.To != "2024-06-03" || q.Zone != "Europe/Paris" ||
+		q.Inputs["azimuth"] != -242.6 || q.Inputs["altitude"] != 70 || q.Inputs["altitude-sd"] != 0.5 ||
+		q.Azimuth == nil || *q.Azimuth != 117.4 || q.AltitudeSD == nil || *q.AltitudeSD != 0.5 {
+		t.Errorf("query not echoed: %s", out)
+	}
+	if len(doc.Matches) != 0 || doc.Closest == nil || doc.Closest.Fits || doc.Closest.PValue >= 0.05 || doc.Closest.MisfitDof != 1 || doc.Closest.Misfit < 30 {
+		t.Errorf("common knowledge: 70° is out of reach at 48.85° N: want no match and a closest misfit: %s", out)
+	}
+}
+
 func TestWhenTable(t *testing.T) {
 	code, out, stderr := captureRun("when", "--lat", "48.85", "--lon", "2.35", "--date", "2024-06-03", "--altitude", "40", "--zone", "Europe/Paris")
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	for _, want := range []string{"earliest (UTC)", "best (UTC)", "latest (UTC)", "azimuth °", "altitude °", "best (local)", "CEST", "χ² below 3.841"} {
+	for _, want := range []string{"earliest (UTC)", "best (UTC)", "latest (UTC)", "azimuth °", "altitude °", "best (local)", "CEST", "χ² below 3.841", "χ² within 3.841 of the best"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("table lacks %q:\n%s", want, out)
 		}

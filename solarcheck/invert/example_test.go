@@ -20,7 +20,7 @@ func ExampleWhen() {
 	}
 	from := time.Date(2025, time.July, 14, 0, 0, 0, 0, time.UTC)
 	to := from.Add(24*time.Hour - time.Second)
-	ws, err := invert.When(invert.Query{
+	res, err := invert.When(invert.Query{
 		Observer:    spa.NewObserver(43.77, 11.25, 50),
 		From:        from,
 		To:          to,
@@ -30,10 +30,10 @@ func ExampleWhen() {
 		fmt.Println(err)
 		return
 	}
-	for _, w := range ws {
-		fmt.Printf("%s to %s, best %s\n", w.Earliest.Format("15:04"), w.Latest.Format("15:04"), w.Best.Format("15:04"))
+	for _, w := range res.Windows {
+		fmt.Printf("%s to %s, best %s, misfit %.2f (%d dof, p = %.2f)\n", w.Earliest.Format("15:04"), w.Latest.Format("15:04"), w.Best.Format("15:04"), w.Misfit, w.Dof, w.PValue)
 	}
-	// Output: 07:54 to 08:25, best 08:10
+	// Output: 07:57 to 08:22, best 08:10, misfit 0.00 (1 dof, p = 0.98)
 }
 
 // Where from a measured sun direction at a known instant.
@@ -62,7 +62,7 @@ func ExampleFromShadow() {
 	est, _ := shadow.Propagate(shadow.Shadow{Height: 2, Length: 2, BearingDeg: 0},
 		shadow.Uncertainty{LengthSDPct: 5, BearingSDDeg: 2})
 	m := invert.FromShadow(est)
-	fmt.Printf("azimuth %.1f ± %.1f°, altitude %.2f ± %.2f°, %d dof, threshold %.3f\n",
-		m.AzimuthDeg, m.AzimuthSDDeg, m.AltitudeDeg, m.AltitudeSDDeg, m.Dof(), m.Threshold())
-	// Output: azimuth 180.0 ± 2.0°, altitude 45.00 ± 1.43°, 2 dof, threshold 5.991
+	fmt.Printf("azimuth %.1f ± %.1f°, altitude %.2f ± %.2f°, %d angles, goodness of fit on %d dof\n",
+		m.AzimuthDeg, m.AzimuthSDDeg, m.AltitudeDeg, m.AltitudeSDDeg, m.Dof(), m.FitDof())
+	// Output: azimuth 180.0 ± 2.0°, altitude 45.00 ± 1.43°, 2 angles, goodness of fit on 1 dof
 }

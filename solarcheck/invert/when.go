@@ -4,12 +4,11 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"runtime"
 	"sort"
-	"sync"
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/internal/angle"
+	"github.com/gnomon-forensics/gnomon/internal/chisq"
 	"github.com/gnomon-forensics/gnomon/solarcheck/shadow"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
 )
@@ -19,12 +18,15 @@ import (
 // Errors wrap it; test with errors.Is.
 var ErrInvalid = errors.New("invalid inverse query")
 
-// Chi-square 95 % points for one and two degrees of freedom (any statistics
-// handbook; e.g. NIST/SEMATECH e-Handbook, table of chi-square critical values).
-const (
-	Chi2Dof1P95 = 3.841
-	Chi2Dof2P95 = 5.991
-)
+// FitLevel is the goodness-of-fit level: a window whose least misfit
+// would be exceeded by chance less often than this (p-value below 0.05)
+// does not fit. The 95 % convention of every other figure of gnomon.
+const FitLevel = 0.05
+
+// ProfileDof is the number of parameters of interest of a time window: the
+// time alone. A window is the profile interval Δχ² = χ² − χ²min below
+// chisq.P95(ProfileDof) = 3.841, whatever the number of angles measured.
+const ProfileDof = 1
 
 const deg = math.Pi / 180
 
@@ -86,13 +88,15 @@ func (m Measurement) Dof() int {
 	return n
 }
 
-// Threshold returns the 95 % chi-square point for m's degrees of freedom.
-func (m Measurement) Threshold() float64 {
-	if m.Dof() == 2 {
-		return Chi2Dof2P95
-	}
-	return Chi2Dof1P95
-}
+// FitDof returns the degrees of freedom of the misfit at the best time as
+// a goodness-of-fit test: the angles measured less the one parameter
+// fitted (the time), and at least one. With a single angle the fit is
+// exact wherever the sun passes the measured value, and a misfit arises
+// only when it never does (the measured altitude is above the day's
+// highest); its distribution is then a mixture of zero and χ² with one
+// degree of freedom, so testing it against one degree of freedom errs
+// toward "fits" (conservative, as an accusation must be).
+func (m Measurement) FitDof() int { return max(m.Dof()-1, 1) }
 
 func (m Measurement) check() error {
 	if m.Dof() == 0 {
@@ -155,8 +159,9 @@ type Query struct {
 	DeltaT func(time.Time) float64
 }
 
-// Window is one interval of time in which the sun matched the measurement
-// at the 95 % level (package doc).
+// Window is one interval of time about a local minimum of the misfit
+// (package doc): the times at which the sun's position is within the
+// measurement's 95 % profile interval of the best time of that minimum.
 type Window struct {
 	Best     time.Time // least misfit, to about 1 s
 	Earliest time.Time // first time inside the 95 % window
@@ -164,54 +169,80 @@ type Window struct {
 	// Sun at Best by the full spa.At: azimuth (true north) and refracted altitude.
 	AzimuthDeg  float64
 	AltitudeDeg float64
-	Misfit      float64 // χ² at Best
+	// Misfit is χ² at Best, the least in the window; Dof its degrees of
+	// freedom as a goodness-of-fit test (Measurement.FitDof) and PValue
+	// the chance of a misfit at least this large if the measurement and
+	// its stated errors are right and the sun stood at Best.
+	Misfit float64
+	Dof    int
+	PValue float64
 	// StartsBefore / EndsAfter report that the window was cut by the
 	// searched range: the sun matched before From or after To too.
 	StartsBefore bool
 	EndsAfter    bool
 }
 
+// Fits reports whether the measurement fits the sun at w's best time at
+// the 95 % level (PValue ≥ FitLevel).
+func (w Window) Fits() bool { return w.PValue >= FitLevel }
+
+// Result is the answer of When.
+type Result struct {
+	// Windows are the windows in which the measurement fits the sun
+	// (Window.Fits), in time order. Empty when it fits at no time.
+	Windows []Window
+	// Closest is the window of least misfit in the whole range, whether
+	// it fits or not, so that a measurement that fits nowhere can be
+	// reported with its misfit. Nil when the sun was below the horizon
+	// throughout (and Measurement.BelowHorizonOK is false).
+	Closest *Window
+}
+
 // searcher holds one When search.
 type searcher struct {
-	m              Measurement
-	thr            float64
-	o              spa.Observer
-	eph            *spa.Ephemeris
-	spanS          float64
-	stepS          float64
-	n              int // grid points 0..n
-	sinPhi, cosPhi float64
+	m      Measurement
+	fitThr float64 // χ² below which a minimum fits (FitLevel, FitDof)
+	delta  float64 // Δχ² of the 95 % profile interval (ProfileDof)
+	o      spa.Observer
+	eph    *spa.Ephemeris
+	spanS  float64
+	stepS  float64
+	n      int // grid points 0..n
+	sinPhi float64
+	cosPhi float64
 	// maxRefrDeg bounds the refraction SPA applies for this atmosphere
 	// (its value at the lowest altitude it corrects, Eq. 42).
 	maxRefrDeg float64
 }
 
-// When finds every window in [q.From, q.To] in which the sun, seen from
-// q.Observer, matched q.Measurement at the 95 % level. The method is in the
-// package doc. An empty result means no time in the range fits.
-func When(q Query) ([]Window, error) {
+// When finds the windows in [q.From, q.To] in which the sun, seen from
+// q.Observer, matched q.Measurement at the 95 % level, and the window of
+// least misfit whether it matched or not. The method is in the package
+// doc. It runs on the caller's goroutine: callers decide concurrency.
+func When(q Query) (Result, error) {
 	if err := q.Measurement.check(); err != nil {
-		return nil, err
+		return Result{}, err
 	}
 	o := q.Observer
 	if !(o.LatDeg >= -90 && o.LatDeg <= 90) || math.IsNaN(o.LonDeg) || math.IsInf(o.LonDeg, 0) {
-		return nil, fmt.Errorf("observer at %g°, %g°: %w", o.LatDeg, o.LonDeg, ErrInvalid)
+		return Result{}, fmt.Errorf("observer at %g°, %g°: %w", o.LatDeg, o.LonDeg, ErrInvalid)
 	}
 	span := q.To.Sub(q.From)
 	if span < 0 {
-		return nil, fmt.Errorf("range %s to %s runs backwards: %w", q.From.Format(time.RFC3339), q.To.Format(time.RFC3339), ErrInvalid)
+		return Result{}, fmt.Errorf("range %s to %s runs backwards: %w", q.From.Format(time.RFC3339), q.To.Format(time.RFC3339), ErrInvalid)
 	}
 	if span < time.Minute {
-		return nil, fmt.Errorf("range of %s is shorter than the 1-minute search step: %w", span, ErrInvalid)
+		return Result{}, fmt.Errorf("range of %s is shorter than the 1-minute search step: %w", span, ErrInvalid)
 	}
 	if span > MaxRange {
-		return nil, fmt.Errorf("range of %.0f days exceeds the %.0f-day limit: %w", span.Hours()/24, MaxRange.Hours()/24, ErrInvalid)
+		return Result{}, fmt.Errorf("range of %.0f days exceeds the %.0f-day limit: %w", span.Hours()/24, MaxRange.Hours()/24, ErrInvalid)
 	}
 	dt := q.DeltaT
 	if dt == nil {
 		dt = spa.DeltaT
 	}
-	s := &searcher{m: q.Measurement, thr: q.Measurement.Threshold(), o: o, spanS: span.Seconds()}
+	m := q.Measurement
+	s := &searcher{m: m, fitThr: chisq.Point(FitLevel, m.FitDof()), delta: chisq.P95(ProfileDof), o: o, spanS: span.Seconds()}
 	s.sinPhi, s.cosPhi = math.Sincos(o.LatDeg * deg)
 	s.maxRefrDeg = max(0, spa.Refraction(-0.8333, o.PressureHPa, o.TemperatureC)) + 0.01
 	s.n = int(math.Ceil(s.spanS / gridStep.Seconds()))
@@ -221,25 +252,36 @@ func When(q Query) ([]Window, error) {
 	s.stepS = s.spanS / float64(s.n)
 	s.eph = spa.NewEphemeris(q.From, s.spanS, dt)
 
-	seeds := s.screen()
-	wins := s.refine(seeds)
-	out := make([]Window, 0, len(wins))
-	for _, w := range wins {
+	wins, closest := s.refine(s.screen())
+	toWindow := func(w interval) Window {
 		// Times are good to about a second: report whole seconds.
 		best := q.From.Add(time.Duration(math.Round(w.best * 1e9))).Round(time.Second)
 		p := spa.At(best, o, dt(best))
-		out = append(out, Window{
+		chi := s.m.chi2(p.AzimuthDeg, p.AltitudeDeg)
+		return Window{
 			Best:         best.UTC(),
 			Earliest:     q.From.Add(time.Duration(math.Round(w.lo * 1e9))).Round(time.Second).UTC(),
 			Latest:       q.From.Add(time.Duration(math.Round(w.hi * 1e9))).Round(time.Second).UTC(),
 			AzimuthDeg:   p.AzimuthDeg,
 			AltitudeDeg:  p.AltitudeDeg,
-			Misfit:       s.m.chi2(p.AzimuthDeg, p.AltitudeDeg),
+			Misfit:       chi,
+			Dof:          m.FitDof(),
+			PValue:       chisq.Survival(chi, m.FitDof()),
 			StartsBefore: w.lo <= 0,
 			EndsAfter:    w.hi >= s.spanS,
-		})
+		}
 	}
-	return out, nil
+	var res Result
+	for _, w := range wins {
+		if win := toWindow(w); win.Fits() {
+			res.Windows = append(res.Windows, win)
+		}
+	}
+	if closest != nil {
+		c := toWindow(*closest)
+		res.Closest = &c
+	}
+	return res, nil
 }
 
 // gridS is the time of grid point k in seconds since From.
@@ -272,48 +314,55 @@ func (s *searcher) precise(t float64) float64 {
 	return s.m.chi2(p.AzimuthDeg, p.AltitudeDeg)
 }
 
-// screen evaluates the cheap misfit on the grid in parallel and returns
-// the grid-local minima, sorted.
+// blockSpan is one screening block: grid indices kb..ke and a lower
+// bound of the cheap misfit anywhere in it.
+type blockSpan struct {
+	kb, ke int
+	lb     float64
+}
+
+// screen evaluates the cheap misfit on the grid and returns the
+// grid-local minima, sorted. Blocks are visited from the lowest lower
+// bound up, and a block is skipped once its bound exceeds both the fit
+// threshold and the least misfit found so far (each plus one, for the
+// cheap model's error): it can then hold neither a fitting minimum nor the
+// closest one (branch and bound).
 func (s *searcher) screen() []int {
-	workers := runtime.GOMAXPROCS(0)
-	if workers > 8 {
-		workers = 8
+	var blocks []blockSpan
+	for kb := 0; kb <= s.n; kb += screenBlock {
+		ke := min(kb+screenBlock, s.n)
+		blocks = append(blocks, blockSpan{kb: kb, ke: ke, lb: s.blockBound(s.gridS(kb), s.gridS(ke))})
 	}
-	per := (s.n + 1 + workers - 1) / workers
-	res := make([][]int, workers)
-	var wg sync.WaitGroup
-	for w := 0; w < workers; w++ {
-		a, b := w*per, min((w+1)*per, s.n+1) // grid indices [a, b)
-		if a >= b {
-			continue
+	sort.SliceStable(blocks, func(i, j int) bool { return blocks[i].lb < blocks[j].lb })
+	vals := make([]float64, s.n+1)
+	for i := range vals {
+		vals[i] = math.Inf(1)
+	}
+	least := math.Inf(1)
+	for _, b := range blocks {
+		if b.lb > max(s.fitThr, least)+1 {
+			break
 		}
-		wg.Add(1)
-		go func(w, a, b int) {
-			defer wg.Done()
-			// vals[i] is the misfit at grid index a−1+i; outside the
-			// grid it is +Inf so that the ends can be minima.
-			lo, hi := max(a-1, 0), min(b, s.n) // evaluated indices [lo, hi]
-			vals := make([]float64, b-a+2)
-			for i := range vals {
-				vals[i] = math.Inf(1)
-			}
-			s.cheapGrid(lo, hi, vals[lo-(a-1):])
-			var seeds []int
-			for k := a; k < b; k++ {
-				i := k - (a - 1)
-				if vals[i] < vals[i-1] && vals[i] <= vals[i+1] {
-					seeds = append(seeds, k)
-				}
-			}
-			res[w] = seeds
-		}(w, a, b)
+		s.cheapBlock(b.kb, b.ke, vals[b.kb:b.ke+1])
+		for _, v := range vals[b.kb : b.ke+1] {
+			least = min(least, v)
+		}
 	}
-	wg.Wait()
-	var all []int
-	for _, r := range res {
-		all = append(all, r...)
+	var seeds []int
+	for k, v := range vals {
+		prev, next := math.Inf(1), math.Inf(1)
+		if k > 0 {
+			prev = vals[k-1]
+		}
+		if k < s.n {
+			next = vals[k+1]
+		}
+		// Only minima that could fit or be the closest are worth refining.
+		if v < prev && v <= next && v <= max(s.fitThr, least)+1 {
+			seeds = append(seeds, k)
+		}
 	}
-	return all
+	return seeds
 }
 
 // sunRateDegPerS bounds how fast the sun's altitude can change: its
@@ -321,112 +370,116 @@ func (s *searcher) screen() []int {
 // sidereal day), and no component of a motion is faster than the motion.
 const sunRateDegPerS = 15.05 / 3600
 
-// blockCannotMatch reports whether no time in a screening block can have a
-// misfit below the threshold, from the airless altitudes at its two ends:
-// inside the block the altitude stays within ±(rate × half the block) of
-// their mean, and refraction raises it by at most its value at the
-// horizon. Such blocks (night for a visible sun; hours when the altitude
-// is far from a measured one) are not evaluated point by point. χ² is at
-// least d_alt² whatever the azimuth term and correlation, so the test
-// only looks at the altitude.
-func (s *searcher) blockCannotMatch(sinDA, cosDA, cosHA, sinDB, cosDB, cosHB, durS float64) bool {
-	altA := math.Asin(max(-1, min(1, s.sinPhi*sinDA+s.cosPhi*cosDA*cosHA))) / deg
-	altB := math.Asin(max(-1, min(1, s.sinPhi*sinDB+s.cosPhi*cosDB*cosHB))) / deg
-	half := sunRateDegPerS * durS / 2
+// blockBound returns a lower bound of the cheap misfit at every time in
+// [ta, tb] from the airless altitudes at its two ends: inside the block
+// the altitude stays within ±(rate × half the block) of their mean, and
+// refraction raises it by at most its value at the horizon. χ² is at least
+// d_alt² whatever the azimuth term and correlation, plus the below-horizon
+// penalty when the sun cannot have been up, so the bound only looks at the
+// altitude. Night (for a visible sun) and hours when the altitude is far
+// from a measured one get high bounds and are not evaluated point by point.
+func (s *searcher) blockBound(ta, tb float64) float64 {
+	alt := func(t float64) float64 {
+		ra, dec, sid := s.eph.RaDecSidereal(t)
+		sinD, cosD := math.Sincos(dec * deg)
+		cosH := math.Cos((sid + s.o.LonDeg - ra) * deg)
+		return math.Asin(max(-1, min(1, s.sinPhi*sinD+s.cosPhi*cosD*cosH))) / deg
+	}
+	altA, altB := alt(ta), alt(tb)
+	half := sunRateDegPerS * (tb - ta) / 2
 	lo := (altA+altB)/2 - half - 0.001 // SPA's refraction is slightly negative at the zenith
 	hi := (altA+altB)/2 + half + s.maxRefrDeg
-	if !s.m.BelowHorizonOK && hi < -0.2 { // penalty ≥ (0.2/0.01)² everywhere
-		return true
+	var lb float64
+	if !s.m.BelowHorizonOK && hi < 0 {
+		p := hi / horizonScaleDeg
+		lb += p * p
 	}
 	if s.m.HasAltitude {
 		d := max(0, lo-s.m.AltitudeDeg, s.m.AltitudeDeg-hi) / s.m.AltitudeSDDeg
-		if d*d > s.thr+1 {
-			return true
-		}
+		lb += d * d
 	}
-	return false
+	return lb
 }
 
-// screenBlock is the number of grid steps over which cheapGrid treats the
+// screenBlock is the number of grid steps over which cheapBlock treats the
 // hour angle as linear in time and the declination's sine and cosine as
 // linear: over an hour the hour angle departs from a straight line by
 // about 1e-8° and the declination moves by at most 0.017°, so the
 // linear forms are good to 1e-7°.
 const screenBlock = 60
 
-// cheapGrid fills out[k−lo] with the cheap misfit at grid indices
-// lo..hi. It evaluates the interpolated ephemeris only at block ends and
-// steps the hour angle's sine and cosine by rotation in between, which
-// makes the screen several times faster than calling cheap per point.
-func (s *searcher) cheapGrid(lo, hi int, out []float64) {
+// cheapBlock fills out[k−kb] with the cheap misfit at grid indices
+// kb..ke (one screening block). It evaluates the interpolated ephemeris
+// only at the block's ends and steps the hour angle's sine and cosine by
+// rotation in between, which makes the screen several times faster than
+// calling cheap per point.
+func (s *searcher) cheapBlock(kb, ke int, out []float64) {
 	sinPhi, cosPhi := s.sinPhi, s.cosPhi
 	p, tc := s.o.PressureHPa, s.o.TemperatureC
-	for kb := lo; kb <= hi; kb += screenBlock {
-		ke := min(kb+screenBlock, hi)
-		ta, tb := s.gridS(kb), s.gridS(ke)
-		raA, decA, sidA := s.eph.RaDecSidereal(ta)
-		raB, decB, sidB := s.eph.RaDecSidereal(tb)
-		hA := sidA + s.o.LonDeg - raA
-		hB := sidB + s.o.LonDeg - raB
-		ref := hA + (tb-ta)*spa.SiderealRateDegPerDay/86400
-		hB = ref + angle.Wrap180(hB-ref) // continue hA's turn, not a jump of 360°
-		sinDA, cosDA := math.Sincos(decA * deg)
-		sinDB, cosDB := math.Sincos(decB * deg)
-		steps := ke - kb
-		var dH, dSin, dCos float64
-		if steps > 0 {
-			dH = (hB - hA) / float64(steps) * deg
-			dSin, dCos = (sinDB-sinDA)/float64(steps), (cosDB-cosDA)/float64(steps)
+	ta, tb := s.gridS(kb), s.gridS(ke)
+	raA, decA, sidA := s.eph.RaDecSidereal(ta)
+	raB, decB, sidB := s.eph.RaDecSidereal(tb)
+	hA := sidA + s.o.LonDeg - raA
+	hB := sidB + s.o.LonDeg - raB
+	ref := hA + (tb-ta)*spa.SiderealRateDegPerDay/86400
+	hB = ref + angle.Wrap180(hB-ref) // continue hA's turn, not a jump of 360°
+	sinDA, cosDA := math.Sincos(decA * deg)
+	sinDB, cosDB := math.Sincos(decB * deg)
+	steps := ke - kb
+	var dH, dSin, dCos float64
+	if steps > 0 {
+		dH = (hB - hA) / float64(steps) * deg
+		dSin, dCos = (sinDB-sinDA)/float64(steps), (cosDB-cosDA)/float64(steps)
+	}
+	rs, rc := math.Sincos(dH)
+	sinH, cosH := math.Sincos(hA * deg)
+	for j := 0; j <= steps; j++ {
+		sinD := sinDA + float64(j)*dSin
+		cosD := cosDA + float64(j)*dCos
+		x := sinPhi*sinD + cosPhi*cosD*cosH
+		alt0 := math.Asin(max(-1, min(1, x))) / deg
+		alt := alt0 + spa.Refraction(alt0, p, tc)
+		var az float64
+		if s.m.HasAzimuth {
+			az = math.Atan2(sinH, cosH*sinPhi-sinD/cosD*cosPhi)/deg + 180 // SPA Eq. 45–46 without parallax
 		}
-		rs, rc := math.Sincos(dH)
-		sinH, cosH := math.Sincos(hA * deg)
-		if s.blockCannotMatch(sinDA, cosDA, cosH, sinDB, cosDB, math.Cos(hB*deg), tb-ta) {
-			for j := 0; j <= steps; j++ {
-				if j == steps && ke != hi {
-					break
-				}
-				out[kb-lo+j] = math.Inf(1)
-			}
-			continue
-		}
-		for j := 0; j <= steps; j++ {
-			if j == steps && ke != hi {
-				break // the next block starts here
-			}
-			sinD := sinDA + float64(j)*dSin
-			cosD := cosDA + float64(j)*dCos
-			x := sinPhi*sinD + cosPhi*cosD*cosH
-			alt0 := math.Asin(max(-1, min(1, x))) / deg
-			alt := alt0 + spa.Refraction(alt0, p, tc)
-			var az float64
-			if s.m.HasAzimuth {
-				az = math.Atan2(sinH, cosH*sinPhi-sinD/cosD*cosPhi)/deg + 180 // SPA Eq. 45–46 without parallax
-			}
-			out[kb-lo+j] = s.m.chi2c(az, alt, math.Sqrt(max(0, 1-x*x))) // cos of the airless altitude
-			sinH, cosH = sinH*rc+cosH*rs, cosH*rc-sinH*rs
-		}
+		out[j] = s.m.chi2c(az, alt, math.Sqrt(max(0, 1-x*x))) // cos of the airless altitude
+		sinH, cosH = sinH*rc+cosH*rs, cosH*rc-sinH*rs
 	}
 }
 
+// interval is a window in seconds since From, with its best time and the
+// least misfit there.
 type interval struct{ lo, hi, best, chi float64 }
 
-// refine turns grid seeds into windows (package doc, step 3).
-func (s *searcher) refine(seeds []int) []interval {
-	var wins []interval
+// refine turns grid seeds into windows (package doc, step 3): the fitting
+// ones, and the closest (least misfit) one, which is nil when the sun was
+// below the horizon at every candidate and that is not allowed.
+func (s *searcher) refine(seeds []int) ([]interval, *interval) {
+	type cand struct{ t, chi float64 }
+	var cands []cand
+	ci := -1
 	for _, k := range seeds {
 		a := s.gridS(max(k-1, 0))
 		b := s.gridS(min(k+1, s.n))
 		t, chi := s.golden(a, b)
-		if chi >= s.thr {
+		cands = append(cands, cand{t, chi})
+		if ci < 0 || chi < cands[ci].chi {
+			ci = len(cands) - 1
+		}
+	}
+	var wins []interval
+	for _, c := range cands {
+		if c.chi > s.fitThr {
 			continue
 		}
-		if n := len(wins); n > 0 && t <= wins[n-1].hi {
-			if chi < wins[n-1].chi {
-				wins[n-1].best, wins[n-1].chi = t, chi
+		if n := len(wins); n > 0 && c.t <= wins[n-1].hi {
+			if c.chi < wins[n-1].chi {
+				wins[n-1].best, wins[n-1].chi = c.t, c.chi
 			}
 			continue
 		}
-		wins = append(wins, interval{lo: s.edge(t, -1), hi: s.edge(t, +1), best: t, chi: chi})
+		wins = append(wins, s.window(c.t, c.chi))
 	}
 	// Merge any overlaps left by disagreement between the two models.
 	sort.Slice(wins, func(i, j int) bool { return wins[i].lo < wins[j].lo })
@@ -442,7 +495,27 @@ func (s *searcher) refine(seeds []int) []interval {
 		}
 		out = append(out, w)
 	}
-	return out
+	if ci < 0 {
+		return out, nil
+	}
+	c := cands[ci]
+	for i := range out {
+		if c.t >= out[i].lo && c.t <= out[i].hi {
+			return out, &out[i]
+		}
+	}
+	if !s.m.BelowHorizonOK && s.eph.At(c.t).Topocentric(s.o).AltitudeDeg < -0.5 {
+		return out, nil // the sun never rose: there is no closest time to speak of
+	}
+	w := s.window(c.t, c.chi)
+	return out, &w
+}
+
+// window returns the profile interval about a local minimum chi at t: the
+// times either side before the misfit first reaches chi + Δχ².
+func (s *searcher) window(t, chi float64) interval {
+	thr := chi + s.delta
+	return interval{lo: s.edge(t, -1, thr), hi: s.edge(t, +1, thr), best: t, chi: chi}
 }
 
 // golden minimises the precise misfit on [a, b] by golden-section search
@@ -477,11 +550,11 @@ func (s *searcher) golden(a, b float64) (float64, float64) {
 	return t, f
 }
 
-// edge walks the grid from inside (misfit below threshold) in direction
-// dir until the misfit reaches the threshold, then bisects the last step
-// with the precise model to about 0.5 s. It returns the last inside time,
-// or the end of the range if the window runs past it.
-func (s *searcher) edge(in float64, dir int) float64 {
+// edge walks the grid from inside (misfit below thr) in direction dir
+// until the misfit reaches thr, then bisects the last step with the
+// precise model to about 0.5 s. It returns the last inside time, or the
+// end of the range if the window runs past it.
+func (s *searcher) edge(in float64, dir int, thr float64) float64 {
 	for {
 		var k int
 		if dir > 0 { // the tolerance keeps a point on the grid from finding itself
@@ -496,14 +569,14 @@ func (s *searcher) edge(in float64, dir int) float64 {
 			return 0
 		}
 		next := s.gridS(k)
-		if s.cheap(next) < s.thr || s.precise(next) < s.thr {
+		if s.cheap(next) < thr || s.precise(next) < thr {
 			in = next
 			continue
 		}
 		out := next
 		for math.Abs(out-in) > 0.5 {
 			mid := (in + out) / 2
-			if s.precise(mid) < s.thr {
+			if s.precise(mid) < thr {
 				in = mid
 			} else {
 				out = mid

@@ -7,12 +7,17 @@ import (
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/internal/angle"
+	"github.com/gnomon-forensics/gnomon/internal/chisq"
+	"github.com/gnomon-forensics/gnomon/internal/sphere"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
 )
 
-// earthRadiusKm is the mean radius of the Earth (IUGG), used to turn
-// angles on the ground into kilometres.
-const earthRadiusKm = 6371.0
+// earthRadiusKm turns angles on the ground into kilometres.
+const earthRadiusKm = sphere.MeanRadiusKm
+
+// fixLevel is the χ² point of a place's 95 % region: two parameters of
+// interest (latitude and longitude), chisq.P95(2) = 5.991.
+var fixLevel = chisq.P95(2)
 
 // WhereQuery is a Where problem: an instant and a measured sun direction
 // (both azimuth and altitude are required), and the observer's height and
@@ -177,12 +182,12 @@ func Where(q WhereQuery) ([]Fix, error) {
 		obs.LatDeg, obs.LonDeg = lat, lon
 		p := g.Topocentric(obs)
 		misfit := m.chi2(p.AzimuthDeg, p.AltitudeDeg)
-		if misfit >= Chi2Dof2P95 {
+		if misfit >= fixLevel {
 			continue
 		}
 		dup := false
 		for _, f := range fixes {
-			if distanceKm(f.LatDeg, f.LonDeg, lat, lon) < 1 {
+			if sphere.DistanceKm(f.LatDeg, f.LonDeg, lat, lon) < 1 {
 				dup = true
 			}
 		}
@@ -201,7 +206,7 @@ func Where(q WhereQuery) ([]Fix, error) {
 			SemiMajorKm: math.Sqrt(mid + d), SemiMinorKm: math.Sqrt(math.Max(mid-d, 0))}
 		// Bearing of the major axis: the eigenvector's angle from north, tan 2θ = 2b/(a − c).
 		f.MajorAxisDeg = math.Mod(angle.Norm360(math.Atan2(2*b, a-c)/2/deg), 180)
-		f.RadiusKm = math.Sqrt(Chi2Dof2P95) * f.SemiMajorKm
+		f.RadiusKm = math.Sqrt(fixLevel) * f.SemiMajorKm
 		fixes = append(fixes, f)
 	}
 	if len(fixes) == 0 {
@@ -222,14 +227,6 @@ func destination(latDeg, lonDeg, bearingDeg, distDeg float64) (float64, float64)
 	lat := math.Asin(sP*cD + cP*sD*cB)
 	lon := lonDeg*deg + math.Atan2(sB*sD*cP, cD-sP*math.Sin(lat))
 	return lat / deg, angle.Wrap180(lon / deg)
-}
-
-// distanceKm is the great-circle distance on the mean sphere (haversine).
-func distanceKm(lat1, lon1, lat2, lon2 float64) float64 {
-	s1 := math.Sin((lat2 - lat1) * deg / 2)
-	s2 := math.Sin((lon2 - lon1) * deg / 2)
-	h := s1*s1 + math.Cos(lat1*deg)*math.Cos(lat2*deg)*s2*s2
-	return 2 * earthRadiusKm * math.Asin(math.Min(1, math.Sqrt(h)))
 }
 
 // horiz returns the east and north components of the unit vector toward

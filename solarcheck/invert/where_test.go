@@ -8,6 +8,7 @@ import (
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/internal/angle"
+	"github.com/gnomon-forensics/gnomon/internal/sphere"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
 )
 
@@ -55,7 +56,7 @@ func TestWhereRoundTrip(t *testing.T) {
 			}
 			best := math.Inf(1)
 			for _, f := range fixes {
-				best = math.Min(best, distanceKm(f.LatDeg, f.LonDeg, tc.lat, tc.lon))
+				best = math.Min(best, sphere.DistanceKm(f.LatDeg, f.LonDeg, tc.lat, tc.lon))
 				// Every fix must really see the sun where it was measured.
 				q := sunAt(f.LatDeg, f.LonDeg, tc.at)
 				if math.Abs(angle.Wrap180(q.AzimuthDeg-p.AzimuthDeg))*math.Cos(p.AltitudeDeg*deg) > 1e-6 || math.Abs(q.AltitudeDeg-p.AltitudeDeg) > 1e-6 {
@@ -98,12 +99,13 @@ func TestWhereZenith(t *testing.T) {
 				t.Fatalf("%s: %d fixes", tc.source, len(fixes))
 			}
 			f := fixes[0]
-			if d := distanceKm(f.LatDeg, f.LonDeg, ssp.SubsolarLatDeg, ssp.SubsolarLonDeg); d > 0.5 {
+			if d := sphere.DistanceKm(f.LatDeg, f.LonDeg, ssp.SubsolarLatDeg, ssp.SubsolarLonDeg); d > 0.5 {
 				t.Errorf("%s at %s: fix %.4f, %.4f is %.2f km from the subsolar point %.4f, %.4f", tc.source, tc.at,
 					f.LatDeg, f.LonDeg, d, ssp.SubsolarLatDeg, ssp.SubsolarLonDeg)
 			}
-			// Radius: 0.5° of altitude is 55.6 km on the ground; 95 % circle √5.991 × that.
-			if want := math.Sqrt(Chi2Dof2P95) * 0.5 * deg * earthRadiusKm; math.Abs(f.RadiusKm-want) > 0.01*want {
+			// Radius: 0.5° of altitude is 55.6 km on the ground; 95 % circle √5.991 × that
+			// (5.991: χ² 95 % point for 2 dof, NIST/SEMATECH e-Handbook 1.3.6.7.4).
+			if want := math.Sqrt(5.991) * 0.5 * deg * earthRadiusKm; math.Abs(f.RadiusKm-want) > 0.01*want {
 				t.Errorf("%s: radius %.1f km, want %.1f", tc.source, f.RadiusKm, want)
 			}
 		}
@@ -136,7 +138,7 @@ func TestWhereCoverage(t *testing.T) {
 			t.Fatal(err)
 		}
 		for _, f := range fixes {
-			if distanceKm(f.LatDeg, f.LonDeg, lat, lon) <= f.RadiusKm {
+			if sphere.DistanceKm(f.LatDeg, f.LonDeg, lat, lon) <= f.RadiusKm {
 				hits++
 				break
 			}

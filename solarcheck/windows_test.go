@@ -1,0 +1,137 @@
+package solarcheck
+
+import (
+	"math"
+	"math/rand/v2"
+	"strings"
+	"testing"
+	"time"
+)
+
+// TestSeasonBands: shadows cast on 20 April at Zurich, claimed in January.
+// The sun's declination is nearly symmetric about the June solstice, so the
+// same shadows fit a band of dates about 20 April and a mirror band about
+// 22 August (21 June ± 62 days; common knowledge, to a few days because of
+// the Earth's eccentric orbit). Both bands are reported, nearest first.
+func TestSeasonBands(t *testing.T) {
+	const source = "common knowledge: solar declination is symmetric about the June solstice"
+	x := sharedExaminer()
+	zurich := mustLoc(t, "Europe/Zurich")
+	truth := time.Date(2026, 4, 20, 12, 10, 0, 0, time.UTC)
+	claimed := time.Date(2026, 1, 15, 12, 10, 0, 0, time.UTC)
+	s := scene{trueUTC: truth, wall: claimed.In(zurich), lat: 46.2, lon: 6.15, shadows: 3}
+	f := x.Examine(s.photo(t, "a.jpg"))
+	if f.Verdict != SeasonMismatch {
+		t.Fatalf("verdict %s, want %s: %s", f.Verdict, SeasonMismatch, f.Explanation)
+	}
+	if len(f.SeasonBands) < 2 {
+		t.Fatalf("%s: want two bands, got %+v", source, f.SeasonBands)
+	}
+	in := func(b DateBand, d time.Time) bool { return !d.Before(b.First) && !d.After(b.Last) }
+	if !in(f.SeasonBands[0], truth.Truncate(24*time.Hour)) {
+		t.Errorf("the nearest band %s–%s misses the true date %s", f.SeasonBands[0].First, f.SeasonBands[0].Last, truth)
+	}
+	mirror := false
+	for _, b := range f.SeasonBands[1:] {
+		if b.Last.After(time.Date(2025, 8, 15, 0, 0, 0, 0, time.UTC)) && b.First.Before(time.Date(2025, 8, 30, 0, 0, 0, 0, time.UTC)) {
+			mirror = true
+		}
+	}
+	if !mirror {
+		t.Errorf("%s: no band about 2025-08-22: %+v", source, f.SeasonBands)
+	}
+	for i := 1; i < len(f.SeasonBands); i++ {
+		if math.Abs(f.SeasonBands[i].DaysFromClaim) < math.Abs(f.SeasonBands[i-1].DaysFromClaim) {
+			t.Errorf("bands not nearest first: %+v", f.SeasonBands)
+		}
+	}
+	c, _ := f.Check(KindShadowTime)
+	if c.Figure != f.SeasonBands[0].DaysFromClaim || !strings.Contains(c.Sentence, f.SeasonBands[1].First.Format(time.DateOnly)) {
+		t.Errorf("the check must carry the nearest band's distance and name every band: %+v", c)
+	}
+	if c.Fit == nil || c.Fit.PValue >= 0.05 {
+		t.Errorf("the misfit near the claim must be reported and improbable: %+v", c.Fit)
+	}
+}
+
+// TestShadowsFitNoTime: a shadow as short as a sun 80° up, at 46° N, where
+// the sun never climbs above 67.4° (90° − 46.2° + 23.44°; common
+// knowledge). No time fits; the check says so, no window is given, and the
+// diagnosis does not use the shadows as a witness of the time.
+func TestShadowsFitNoTime(t *testing.T) {
+	x := sharedExaminer()
+	zurich := mustLoc(t, "Europe/Zurich")
+	truth := time.Date(2026, 6, 20, 11, 30, 0, 0, time.UTC)
+	p := scene{trueUTC: truth, wall: truth.In(zurich), lat: 46.2, lon: 6.15, shadows: 1}.photo(t, "a.jpg")
+	p.Measurements[0].ShadowLength = p.Measurements[0].ObjectHeight / math.Tan(80*math.Pi/180)
+	f := x.Examine(p)
+	c, _ := f.Check(KindShadowTime)
+	if f.Verdict != Unverified || !f.Basis.ShadowMisfit || f.Offset != nil {
+		t.Fatalf("verdict %s, misfit flag %v, offset %v: %s", f.Verdict, f.Basis.ShadowMisfit, f.Offset, f.Explanation)
+	}
+	if c.Status != Conflicts || c.HasFigure || c.Fit == nil || c.Fit.PValue >= 0.05 || !strings.Contains(f.Explanation, "fit the sun at no time") {
+		t.Errorf("check %+v (fit %+v), explanation %q", c, c.Fit, f.Explanation)
+	}
+}
+
+// TestShadowFitReported: a fitting shadow measurement reports its misfit
+// at the best time (χ², 1 degree of freedom for two angles and one fitted
+// time, p-value) beside the window, and the window is never built on
+// inflated uncertainties.
+func TestShadowFitReported(t *testing.T) {
+	x := sharedExaminer()
+	zurich := mustLoc(t, "Europe/Zurich")
+	truth := time.Date(2026, 9, 2, 8, 0, 0, 0, time.UTC)
+	rng := rand.New(rand.NewPCG(3, 4))
+	for i := 0; i < 20; i++ {
+		f := x.Examine(scene{trueUTC: truth, wall: truth.In(zurich), lat: 46.2, lon: 6.15, shadows: 2, noise: rng}.photo(t, "a.jpg"))
+		c, ok := f.Check(KindShadowTime)
+		if !ok || c.Fit == nil {
+			t.Fatalf("trial %d: no shadow_time fit: %+v", i, f.Checks)
+		}
+		if c.Fit.Dof != 1 || !(c.Fit.PValue > 0 && c.Fit.PValue <= 1) || strings.Contains(c.Sentence, "doubled") {
+			t.Errorf("trial %d: fit %+v, sentence %q", i, c.Fit, c.Sentence)
+		}
+		if f.Offset != nil && !strings.Contains(c.Sentence, "misfit χ²") {
+			t.Errorf("trial %d: the sentence must state the misfit: %q", i, c.Sentence)
+		}
+	}
+}
+
+// TestZoneStepExamplesRanked: a camera on Madrid summer time (UTC+02:00)
+// photographing in Moscow (UTC+03:00 all year, no daylight saving since
+// 2014; IANA tz database). The zone-step explanation names zones of the
+// place's region (Europe/…) before the alphabetically first zones of that
+// offset (Africa/Blantyre, …).
+func TestZoneStepExamplesRanked(t *testing.T) {
+	x := sharedExaminer()
+	truth := time.Date(2026, 6, 20, 10, 0, 0, 0, time.UTC)
+	madrid := mustLoc(t, "Europe/Madrid")
+	s := scene{trueUTC: truth, wall: truth.In(madrid), lat: 55.75, lon: 37.62, gps: true, gpsTime: ptr(truth)}
+	f := x.Examine(s.photo(t, "a.jpg"))
+	if f.Verdict != ZoneSlip {
+		t.Fatalf("verdict %s, want %s: %s", f.Verdict, ZoneSlip, f.Explanation)
+	}
+	e, a := strings.Index(f.Explanation, "Europe/"), strings.Index(f.Explanation, "Africa/")
+	if e < 0 || (a >= 0 && a < e) {
+		t.Errorf("examples must list Europe/* first: %s", f.Explanation)
+	}
+}
+
+// TestFactoryDateExplained: a camera whose clock fell back to 2000-01-01
+// (common practice) and a GPS clock that says June 2026. The verdict is
+// the offset the GPS shows; the explanation names the reset first.
+func TestFactoryDateExplained(t *testing.T) {
+	x := sharedExaminer()
+	truth := time.Date(2026, 6, 20, 10, 0, 0, 0, time.UTC)
+	s := scene{trueUTC: truth, wall: time.Date(2000, 1, 1, 0, 4, 0, 0, time.UTC), lat: 46.2, lon: 6.15, gps: true, gpsTime: ptr(truth)}
+	f := x.Examine(s.photo(t, "a.jpg"))
+	if !f.FactoryDate || !strings.HasPrefix(f.Explanation, "The camera's date (2000-01-01 00:04)") {
+		t.Errorf("factory date not explained: %v, %s", f.FactoryDate, f.Explanation)
+	}
+	// A correct clock on an ordinary date is not called a reset.
+	s = scene{trueUTC: truth, wall: truth.In(mustLoc(t, "Europe/Zurich")), lat: 46.2, lon: 6.15, gps: true, gpsTime: ptr(truth)}
+	if f := x.Examine(s.photo(t, "b.jpg")); f.FactoryDate || strings.Contains(f.Explanation, "reset") {
+		t.Errorf("ordinary date called a reset: %s", f.Explanation)
+	}
+}
