@@ -23,7 +23,7 @@ var csvHeader = []string{
 	"path", "root", "sha256", "size", "container", "camera", "claimed_local", "claim_source",
 	"zone", "claimed_utc", "lat", "lon", "sun_azimuth", "sun_altitude", "verdict",
 	"offset_s", "offset_low_s", "offset_high_s", "corrected_utc_earliest", "corrected_utc_latest",
-	"checks", "explanation", "error", "file_notes",
+	"checks", "explanation", "error", "file_notes", "season_bands",
 }
 
 // WriteCSV writes one row per photo (sorted by path, then root) under
@@ -90,6 +90,7 @@ func (s *csvSink) Photo(p *Photo) error {
 		NeutraliseCell(p.CorrectedUTCEarliest), NeutraliseCell(p.CorrectedUTCLatest),
 		NeutraliseCell(checksCell(p.Checks)),
 		NeutraliseCell(p.Explanation), NeutraliseCell(p.Error), NeutraliseCell(strings.Join(p.FileNotes, "; ")),
+		NeutraliseCell(seasonBandsCell(p.SeasonBands)),
 	)
 	if err := s.cw.Write(s.row); err != nil {
 		return s.fail(fmt.Errorf("row for %q: %w", p.Path, err))
@@ -121,25 +122,43 @@ func csvFloat(f *float64) string {
 	return strconv.FormatFloat(*f, 'f', -1, 64)
 }
 
-// checksCell packs checks into one cell: "kind=status(figure±uncertainty unit)".
+// seasonBandsCell packs season bands into one cell, nearest first:
+// "first..last" (ISO 8601 dates) joined by "; ".
+func seasonBandsCell(bs []SeasonBand) string {
+	parts := make([]string, len(bs))
+	for i, b := range bs {
+		parts[i] = b.First + ".." + b.Last
+	}
+	return strings.Join(parts, "; ")
+}
+
+// checksCell packs checks into one cell: "kind=status(figure±uncertainty
+// unit)", with ", misfit χ²/dof p=…" inside the brackets for a check that
+// fits a measurement.
 func checksCell(cs []Check) string {
 	parts := make([]string, 0, len(cs))
 	for _, c := range cs {
-		var b strings.Builder
-		b.WriteString(c.Kind + "=" + c.Status)
+		var in []string
 		if c.Figure != nil {
 			// Rounded by the rule of the HTML card (package figure).
+			fig := figure.Decimal(*c.Figure, 0, 2)
 			if c.Uncertainty != nil {
-				b.WriteString("(" + figure.Decimal(*c.Figure, *c.Uncertainty, 2) + "±" + figure.Uncertainty(*c.Uncertainty))
-			} else {
-				b.WriteString("(" + figure.Decimal(*c.Figure, 0, 2))
+				fig = figure.Decimal(*c.Figure, *c.Uncertainty, 2) + "±" + figure.Uncertainty(*c.Uncertainty)
 			}
 			if c.Unit != "" {
-				b.WriteString(" " + c.Unit)
+				fig += " " + c.Unit
 			}
-			b.WriteString(")")
+			in = append(in, fig)
 		}
-		parts = append(parts, b.String())
+		if c.MisfitChi2 != nil && c.MisfitDof != nil && c.MisfitP != nil {
+			in = append(in, "misfit "+strconv.FormatFloat(*c.MisfitChi2, 'g', 3, 64)+"/"+strconv.Itoa(*c.MisfitDof)+
+				" p="+strconv.FormatFloat(*c.MisfitP, 'g', 2, 64))
+		}
+		s := c.Kind + "=" + c.Status
+		if len(in) > 0 {
+			s += "(" + strings.Join(in, ", ") + ")"
+		}
+		parts = append(parts, s)
 	}
 	return strings.Join(parts, "; ")
 }

@@ -102,6 +102,13 @@ type Photo struct {
 	// value and reason); the GeoJSON keeps it as a feature with no geometry.
 	GPSRejected string `json:"gps_rejected,omitempty"`
 
+	// SeasonBands are the date ranges the shadows fit, nearest the claim
+	// first, when no time near the claim does (season_mismatch).
+	SeasonBands []SeasonBand `json:"season_bands,omitempty"`
+	// FactoryDate marks a capture date that looks like a camera clock
+	// reset to its factory default (e.g. 2000-01-01 00:04).
+	FactoryDate bool `json:"factory_default_date,omitempty"`
+
 	// ShadowFix is the place the shadows give at the GPS time, if any.
 	ShadowFix *Fix `json:"shadow_fix"`
 	// Measured are the sun directions the examiner's sheet gave for this photo.
@@ -140,7 +147,23 @@ type Check struct {
 	Figure      *float64 `json:"figure"`
 	Unit        string   `json:"unit"`
 	Uncertainty *float64 `json:"uncertainty"` // half-width of the 95 % interval, same unit
-	Sentence    string   `json:"sentence"`
+	// MisfitChi2, MisfitDof and MisfitP are the goodness of fit of a check
+	// that fits a measurement (shadow_time): χ² at the best time, its
+	// degrees of freedom and its p-value. Absent for other checks.
+	MisfitChi2 *float64 `json:"misfit_chi2,omitempty"`
+	MisfitDof  *int     `json:"misfit_dof,omitempty"`
+	MisfitP    *float64 `json:"misfit_p,omitempty"`
+	Sentence   string   `json:"sentence"`
+}
+
+// SeasonBand is a run of dates (ISO 8601, the place's solar day) on which
+// the measured shadows fit the sun, with the signed number of days from
+// the band to the claimed date (positive: the band lies before the claim).
+type SeasonBand struct {
+	First         string  `json:"first"`
+	Last          string  `json:"last"`
+	DaysFromClaim float64 `json:"days_from_claim"`
+	Best          string  `json:"best"` // RFC 3339 UTC time of least misfit in the band
 }
 
 // Alternative is an explanation that was tested and rejected, with why.

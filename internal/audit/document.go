@@ -152,6 +152,9 @@ func photo(e Entry, s *stored) report.Photo {
 		if c.HasUncertainty {
 			rc.Uncertainty = ptr(round(c.Uncertainty, 3))
 		}
+		if c.Fit != nil {
+			rc.MisfitChi2, rc.MisfitDof, rc.MisfitP = ptr(round(c.Fit.Chi2, 2)), ptr(c.Fit.Dof), ptr(round(c.Fit.PValue, 4))
+		}
 		p.Checks = append(p.Checks, rc)
 	}
 	if f.Offset != nil {
@@ -167,6 +170,11 @@ func photo(e Entry, s *stored) report.Photo {
 	for _, r := range f.Rejected {
 		p.Rejected = append(p.Rejected, report.Alternative{Verdict: string(r.Verdict), Reason: r.Reason})
 	}
+	for _, b := range f.SeasonBands {
+		p.SeasonBands = append(p.SeasonBands, report.SeasonBand{First: b.First.Format(time.DateOnly), Last: b.Last.Format(time.DateOnly),
+			DaysFromClaim: b.DaysFromClaim, Best: stamp(b.Best.Time)})
+	}
+	p.FactoryDate = f.FactoryDate
 	if f.ShadowFix != nil {
 		p.ShadowFix = &report.Fix{Lat: round(f.ShadowFix.LatDeg, 5), Lon: round(f.ShadowFix.LonDeg, 5), RadiusKm: round(f.ShadowFix.RadiusKm, 2)}
 	}
