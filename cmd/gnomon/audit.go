@@ -57,10 +57,10 @@ func runAudit(e env, args []string) int {
 			"Exit 0 when the run completed, 1 when it failed (an unusable sheet fails it; with --strict, so does\n"+
 			"any sheet problem or any verdict but consistent, unverified and sidecar), 2 for bad usage.")
 	cfg := auditConfig{args: append([]string{"gnomon", "audit"}, args...)}
-	fs.StringVar(&cfg.sheetPath, "shadows", "", "the examiner's measurement sheet (CSV; see `gnomon sheet`)")
-	fs.StringVar(&cfg.out, "out", "gnomon-report", "report folder to create (must not exist, or be empty)")
-	formats := fs.String("formats", strings.Join([]string{"html", "csv", "json", "geojson"}, ","), "report formats to write, comma-separated")
-	fs.IntVar(&cfg.workers, "j", runtime.NumCPU(), "files read at once")
+	fs.StringVar(&cfg.sheetPath, "shadows", "", "the examiner's measurement sheet, `SHEET.csv` (a template comes from gnomon sheet)")
+	fs.StringVar(&cfg.out, "out", "gnomon-report", "report folder `REPORTDIR` to create (must not exist, or be empty)")
+	formats := fs.String("formats", strings.Join([]string{"html", "csv", "json", "geojson"}, ","), "comma-separated `FORMATS` to write: html, csv, json, geojson")
+	fs.IntVar(&cfg.workers, "j", runtime.NumCPU(), "read `N` files at once")
 	fs.BoolVar(&cfg.quiet, "quiet", false, "no progress or summary on stderr")
 	fs.BoolVar(&cfg.strict, "strict", false, "exit 1 when any verdict calls for attention (not consistent, unverified or sidecar); stop at any problem of the sheet")
 	fs.BoolVar(&cfg.thumbnails, "thumbnails", true, "write thumbnails for the HTML report")

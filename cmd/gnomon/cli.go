@@ -11,11 +11,13 @@ import (
 const (
 	exitOK      = 0 // the command did its job
 	exitFailure = 1 // a runtime failure (unreadable input, unwritable output)
-	exitUsage   = 2 // bad flags or values: a one-line reason, then the usage
+	exitUsage   = 2 // bad flags or values: a one-line reason and where the help is
 )
 
 // newFlagSet returns a flag set that reports errors instead of exiting, so
-// that every command answers bad usage the same way (see parseFlags).
+// that every command answers bad usage the same way (see parseFlags). Its
+// Usage prints the full help, for -h; a value name in a flag's help is the
+// word in backquotes (flag.UnquoteUsage), so each flag shows what it takes.
 func newFlagSet(e env, name, synopsis, about string) *flag.FlagSet {
 	fs := flag.NewFlagSet(name, flag.ContinueOnError)
 	fs.SetOutput(e.stderr)
@@ -28,27 +30,32 @@ func newFlagSet(e env, name, synopsis, about string) *flag.FlagSet {
 }
 
 // parseFlags parses args. When it returns done, the caller returns code:
-// 0 after -h, exitUsage after a bad flag (the flag package has already
-// printed the reason and the usage).
+// 0 after -h (the help printed), exitUsage after a bad flag (its reason
+// and the pointer to the help printed, not the whole help: a page of
+// options would push the reason off the screen).
 func parseFlags(fs *flag.FlagSet, args []string) (code int, done bool) {
+	out := fs.Output()
+	fs.SetOutput(io.Discard) // the flag package would print the reason and the whole help
 	err := fs.Parse(args)
+	fs.SetOutput(out)
 	switch {
 	case err == nil:
 		return 0, false
 	case errors.Is(err, flag.ErrHelp):
+		fs.Usage()
 		return exitOK, true
 	default:
-		return exitUsage, true
+		return usageErr(fs, "%v", err), true
 	}
 }
 
-// usageErr prints a one-line reason and the command's usage, and returns
-// exitUsage. Commands call it for values that parse but make no sense
-// (a latitude beyond ±90°, --from after --to).
+// usageErr prints a one-line reason and one line pointing at the command's
+// help, and returns exitUsage. Commands call it for values that parse but
+// make no sense (a latitude beyond ±90°, --from after --to).
 func usageErr(fs *flag.FlagSet, format string, a ...any) int {
 	w := fs.Output()
 	fmt.Fprintf(w, "gnomon %s: %s\n", fs.Name(), fmt.Sprintf(format, a...))
-	fs.Usage()
+	fmt.Fprintf(w, "run 'gnomon %s -h' for its options\n", fs.Name())
 	return exitUsage
 }
 

@@ -81,7 +81,7 @@ func run(e env, args []string) int {
 		}
 	}
 	fmt.Fprintf(e.stderr, "gnomon: unknown command %q\n", name)
-	printHelp(e.stderr)
+	fmt.Fprintln(e.stderr, "run 'gnomon help' for the commands")
 	return exitUsage
 }
 

@@ -179,15 +179,15 @@ type sunJSON struct {
 func runSun(e env, args []string) int {
 	fs := newFlagSet(e, "sun", sunSynopsis, sunAbout)
 	var f sunFlags
-	fs.StringVar(&f.time, "time", "", "instant: RFC 3339 with offset, or YYYY-MM-DDTHH:MM:SS with --zone (UTC read as UT1)")
-	fs.Float64Var(&f.lat, "lat", 0, "latitude, degrees north (-90..90)")
-	fs.Float64Var(&f.lon, "lon", 0, "longitude, degrees east (-180..180)")
-	fs.Float64Var(&f.elev, "elevation", 0, "height above sea level, metres")
-	fs.Float64Var(&f.press, "pressure", spa.DefaultPressureHPa, "mean air pressure for refraction, hPa (0 = no refraction)")
-	fs.Float64Var(&f.temp, "temperature", spa.DefaultTemperatureC, "mean air temperature for refraction, °C")
-	fs.StringVar(&f.deltaT, "delta-t", "", "TT - UT1 in seconds (default: Espenak & Meeus 2006 polynomials)")
-	fs.StringVar(&f.calendar, "calendar", "auto", "calendar of --time: auto (Julian before 1582-10-15), gregorian or julian")
-	fs.StringVar(&f.zone, "zone", "", "IANA time zone for a --time without offset and for local times")
+	fs.StringVar(&f.time, "time", "", "`TIME` of the sun: RFC 3339 with offset, or YYYY-MM-DDTHH:MM:SS with --zone (UTC read as UT1)")
+	fs.Float64Var(&f.lat, "lat", 0, "latitude in `DEGREES` north (-90..90)")
+	fs.Float64Var(&f.lon, "lon", 0, "longitude in `DEGREES` east (-180..180)")
+	fs.Float64Var(&f.elev, "elevation", 0, "height above sea level in `METRES`")
+	fs.Float64Var(&f.press, "pressure", spa.DefaultPressureHPa, "mean air pressure for refraction in `HPA` (0 = no refraction)")
+	fs.Float64Var(&f.temp, "temperature", spa.DefaultTemperatureC, "mean air temperature for refraction in `CELSIUS`")
+	fs.StringVar(&f.deltaT, "delta-t", "", "TT - UT1 in `SECONDS` (default: Espenak & Meeus 2006 polynomials)")
+	fs.StringVar(&f.calendar, "calendar", "auto", "`CALENDAR` of --time: auto (Julian before 1582-10-15), gregorian or julian")
+	fs.StringVar(&f.zone, "zone", "", "IANA time `ZONE` for a --time without offset and for local times")
 	fs.BoolVar(&f.json, "json", false, "print one JSON object")
 	if code, done := parseFlags(fs, args); done {
 		return code

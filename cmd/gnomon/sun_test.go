@@ -48,13 +48,7 @@ func TestSunExitCodes(t *testing.T) {
 			continue
 		}
 		if tc.want == exitUsage {
-			first, _, _ := strings.Cut(stderr, "\n")
-			if !strings.Contains(first, tc.reason) {
-				t.Errorf("%s: first stderr line %q does not give the reason %q", tc.name, first, tc.reason)
-			}
-			if !strings.Contains(stderr, "usage: gnomon sun") {
-				t.Errorf("%s: usage not printed", tc.name)
-			}
+			checkUsageError(t, tc.name, "sun", stderr, tc.reason)
 		}
 	}
 }

@@ -43,11 +43,11 @@ type whereJSON struct {
 
 func runWhere(e env, args []string) int {
 	fs := newFlagSet(e, "where", whereSynopsis, whereAbout)
-	ts := fs.String("time", "", "instant, RFC 3339 (e.g. 2024-06-03T09:17:00Z)")
-	az := fs.Float64("azimuth", 0, "measured sun azimuth, degrees clockwise from true north")
-	alt := fs.Float64("altitude", 0, "measured apparent (refracted) sun altitude, degrees")
-	azSD := fs.Float64("azimuth-sd", 1, "1-sigma error of --azimuth, degrees")
-	altSD := fs.Float64("altitude-sd", 1, "1-sigma error of --altitude, degrees")
+	ts := fs.String("time", "", "`TIME` of the measurement, RFC 3339 (e.g. 2024-06-03T09:17:00Z)")
+	az := fs.Float64("azimuth", 0, "measured sun azimuth in `DEGREES` clockwise from true north")
+	alt := fs.Float64("altitude", 0, "measured apparent (refracted) sun altitude in `DEGREES`")
+	azSD := fs.Float64("azimuth-sd", 1, "1-sigma error of --azimuth in `DEGREES`")
+	altSD := fs.Float64("altitude-sd", 1, "1-sigma error of --altitude in `DEGREES`")
 	asJSON := fs.Bool("json", false, "print one JSON object")
 	if code, done := parseFlags(fs, args); done {
 		return code
