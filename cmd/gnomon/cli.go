@@ -49,6 +49,24 @@ func parseFlags(fs *flag.FlagSet, args []string) (code int, done bool) {
 	}
 }
 
+// parseNoArgs parses the flags of a command that takes no positional
+// argument and needs every flag named in required. It returns the set of
+// flags given; done is true when the command must stop with code (help, a
+// bad flag, a stray argument or a missing flag, each already reported).
+func parseNoArgs(fs *flag.FlagSet, args []string, required ...string) (set map[string]bool, code int, done bool) {
+	if code, done := parseFlags(fs, args); done {
+		return nil, code, true
+	}
+	if fs.NArg() > 0 {
+		return nil, usageErr(fs, "unexpected argument %q", fs.Arg(0)), true
+	}
+	set = flagsSet(fs)
+	if missing := firstMissing(set, required...); missing != "" {
+		return nil, usageErr(fs, "--%s is required", missing), true
+	}
+	return set, 0, false
+}
+
 // usageErr prints a one-line reason and one line pointing at the command's
 // help, and returns exitUsage. Commands call it for values that parse but
 // make no sense (a latitude beyond ±90°, --from after --to).

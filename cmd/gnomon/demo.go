@@ -20,11 +20,8 @@ func runDemo(e env, args []string) int {
 			"and print where the report is. DIR/CASE.txt tells the story and lists the planted faults.")
 	out := fs.String("out", "gnomon-demo", "folder `DIR` to create for the case and its report (must not exist, or be empty)")
 	quiet := fs.Bool("quiet", false, "no progress on stderr")
-	if code, done := parseFlags(fs, args); done {
+	if _, code, done := parseNoArgs(fs, args); done {
 		return code
-	}
-	if fs.NArg() > 0 {
-		return usageErr(fs, "unexpected argument %q", fs.Arg(0))
 	}
 	c, err := democase.Build(*out, democase.Options{})
 	if errors.Is(err, democase.ErrNotEmpty) {

@@ -11,11 +11,8 @@ func runSelftest(e env, args []string) int {
 		"Run the published reference checks built into this binary (the SPA report's example, a Meeus\n"+
 			"example, a WMM2025 test value, a zone lookup) and print each with pass or fail. Every audit runs\n"+
 			"them too and records the result in its report. Exit 1 when any check fails.")
-	if code, done := parseFlags(fs, args); done {
+	if _, code, done := parseNoArgs(fs, args); done {
 		return code
-	}
-	if fs.NArg() > 0 {
-		return usageErr(fs, "unexpected argument %q", fs.Arg(0))
 	}
 	r := selftest.Run(nil)
 	for _, c := range r.Checks {

@@ -189,15 +189,9 @@ func runSun(e env, args []string) int {
 	fs.StringVar(&f.calendar, "calendar", "auto", "`CALENDAR` of --time: auto (Julian before 1582-10-15), gregorian or julian")
 	fs.StringVar(&f.zone, "zone", "", "IANA time `ZONE` for a --time without offset and for local times")
 	fs.BoolVar(&f.json, "json", false, "print one JSON object")
-	if code, done := parseFlags(fs, args); done {
+	set, code, done := parseNoArgs(fs, args, "time", "lat", "lon")
+	if done {
 		return code
-	}
-	if fs.NArg() > 0 {
-		return usageErr(fs, "unexpected argument %q", fs.Arg(0))
-	}
-	set := flagsSet(fs)
-	if missing := firstMissing(set, "time", "lat", "lon"); missing != "" {
-		return usageErr(fs, "--%s is required", missing)
 	}
 	switch {
 	case !(f.lat >= -90 && f.lat <= 90):

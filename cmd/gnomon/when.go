@@ -141,15 +141,9 @@ func runWhen(e env, args []string) int {
 	lenSD := fs.Float64("length-sd-pct", 5, "1-sigma error of --shadow-length in `PERCENT` of the length")
 	zoneName := fs.String("zone", "", "IANA time `ZONE` of the dates (default: UTC dates)")
 	asJSON := fs.Bool("json", false, "print one JSON object")
-	if code, done := parseFlags(fs, args); done {
+	set, code, done := parseNoArgs(fs, args, "lat", "lon")
+	if done {
 		return code
-	}
-	if fs.NArg() > 0 {
-		return usageErr(fs, "unexpected argument %q", fs.Arg(0))
-	}
-	set := flagsSet(fs)
-	if missing := firstMissing(set, "lat", "lon"); missing != "" {
-		return usageErr(fs, "--%s is required", missing)
 	}
 	if !(*lat >= -90 && *lat <= 90) {
 		return usageErr(fs, "--lat %g is outside -90..90", *lat)

@@ -49,15 +49,8 @@ func runWhere(e env, args []string) int {
 	azSD := fs.Float64("azimuth-sd", 1, "1-sigma error of --azimuth in `DEGREES`")
 	altSD := fs.Float64("altitude-sd", 1, "1-sigma error of --altitude in `DEGREES`")
 	asJSON := fs.Bool("json", false, "print one JSON object")
-	if code, done := parseFlags(fs, args); done {
+	if _, code, done := parseNoArgs(fs, args, "time", "azimuth", "altitude"); done {
 		return code
-	}
-	if fs.NArg() > 0 {
-		return usageErr(fs, "unexpected argument %q", fs.Arg(0))
-	}
-	set := flagsSet(fs)
-	if missing := firstMissing(set, "time", "azimuth", "altitude"); missing != "" {
-		return usageErr(fs, "--%s is required", missing)
 	}
 	t, err := time.Parse(time.RFC3339, strings.TrimSpace(*ts))
 	if err != nil {
