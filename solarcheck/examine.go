@@ -151,8 +151,11 @@ func (x *Examiner) Examine(p Photo) Finding {
 		f.Explanation += ". Without a place or an offset the sun cannot be consulted."
 		return f
 	}
+	if len(claim.Candidates) > 1 {
+		x.examineReadings(&f, p)
+		return f
+	}
 	f.Claimed, f.HasClaimed = claim.Candidates[0].UTC, true
-
 	x.runChecks(&f, p)
 	diagnose(&f, x)
 	return f

@@ -21,6 +21,7 @@ const (
 	SeasonMismatch Verdict = "season_mismatch" // no time on the claimed date fits the shadows; another date does
 	PlaceMismatch  Verdict = "place_mismatch"  // the shadows put the camera somewhere else than its GPS tag
 	LightMismatch  Verdict = "light_mismatch"  // the exposure does not fit the light at the claimed moment
+	Ambiguous      Verdict = "ambiguous"       // the wall time denotes several instants and the evidence does not tell which (Finding.Readings)
 	Unverified     Verdict = "unverified"      // no independent witness
 	Unreadable     Verdict = "unreadable"      // the file could not be read well enough to judge
 	Sidecar        Verdict = "sidecar"         // an XMP sidecar: read with its photo, not judged on its own
@@ -158,11 +159,20 @@ type Finding struct {
 	Wall    zone.Wall
 	WallTag string
 	// Claim is how the claimed UTC instant was decided; Claimed is the
-	// instant used for the checks (the candidate the evidence fits best
-	// when a DST gap/fold or overlapping zones give several).
+	// instant the checks, figures and verdict follow: the only candidate,
+	// or, when a skipped or repeated wall time or overlapping zones give
+	// several, the one the evidence supports (Readings[ReadingUsed]). For
+	// an Ambiguous finding it is the earliest candidate, kept only so that
+	// charts have a day to draw; no figure is stated for it.
 	Claim      zone.Claimed
 	Claimed    time.Time
 	HasClaimed bool
+	// Readings are the outcomes of the checks under each of Claim's
+	// candidates, in their order, when there are several; nil otherwise.
+	// ReadingUsed indexes the one Claimed follows, -1 when the verdict is
+	// Ambiguous.
+	Readings    []Reading
+	ReadingUsed int
 
 	// Place is where the photo was taken, by PlaceSource ("gps" or "sheet"),
 	// and PlaceZones the IANA zones that hold there (several where zones
@@ -204,6 +214,15 @@ type Finding struct {
 	// does on a large batch between examining and modelling the cameras, is
 	// judged exactly as one kept in memory.
 	Basis Basis
+}
+
+// Reading is the outcome of the checks when the claimed wall time is read
+// as one of several candidate instants.
+type Reading struct {
+	Candidate   zone.Candidate
+	Verdict     Verdict
+	Offset      *Interval // claimed minus evidence under this reading; nil without a time witness
+	Explanation string
 }
 
 // Basis is the time evidence the checks gathered about one photo, for the

@@ -241,11 +241,11 @@ func (c *Claimed) add(res Resolution) {
 	}
 	switch res.Kind {
 	case Skipped:
-		c.Notes = append(c.Notes, fmt.Sprintf("%s: wall time skipped at the change of %s UTC; both candidates given, neither was shown by a correct clock",
-			res.Zone, res.Transition.Format(time.RFC3339)))
+		c.Notes = append(c.Notes, fmt.Sprintf("In %s this wall time never came: the clocks went forward at %s, so a clock on the legal time there never showed it; both readings are kept",
+			res.Zone, res.Transition.UTC().Format("2006-01-02 15:04 UTC")))
 	case Repeated:
-		c.Notes = append(c.Notes, fmt.Sprintf("%s: wall time repeated at the change of %s UTC; both instants given",
-			res.Zone, res.Transition.Format(time.RFC3339)))
+		c.Notes = append(c.Notes, fmt.Sprintf("In %s this wall time came twice: the clocks went back at %s; both readings are kept",
+			res.Zone, res.Transition.UTC().Format("2006-01-02 15:04 UTC")))
 	}
 }
 

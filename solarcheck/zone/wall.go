@@ -280,21 +280,22 @@ func (r Resolution) Describe(w Wall, used int) string {
 	var b strings.Builder
 	switch r.Kind {
 	case Repeated:
-		fmt.Fprintf(&b, "%s came twice in %s (the clocks went back at %s): read as %s", wall, r.Zone, change, r.Candidates[used].label())
+		fmt.Fprintf(&b, "%s came twice in %s (the clocks went back at %s): read as %s", wall, r.Zone, change, r.Candidates[used].String())
 	case Skipped:
 		fmt.Fprintf(&b, "%s never came in %s (the clocks went forward at %s), so a clock on the legal time there never showed it: read as %s",
-			wall, r.Zone, change, r.Candidates[used].label())
+			wall, r.Zone, change, r.Candidates[used].String())
 	}
 	for i, c := range r.Candidates {
 		if i != used {
-			fmt.Fprintf(&b, "; the other reading is %s", c.label())
+			fmt.Fprintf(&b, "; the other reading is %s", c.String())
 		}
 	}
 	return b.String() + "."
 }
 
-// label names a candidate as "UTC−05:00 (EST), 2025-11-02 06:30:00 UTC".
-func (c Candidate) label() string {
+// String names a candidate in plain words: "UTC−05:00 (EST), 2025-11-02
+// 06:30:00 UTC".
+func (c Candidate) String() string {
 	s := "UTC" + strings.Replace(formatOffset(c.OffsetSec), "-", "−", 1)
 	if c.Abbrev != "" && c.Abbrev[0] != '+' && c.Abbrev[0] != '-' {
 		s += " (" + c.Abbrev + ")"
