@@ -16,14 +16,15 @@ import (
 // CSVColumns returns the first row of report.csv. The columns are documented
 // in the README; "checks" packs every check as
 // "kind=status(figure±uncertainty unit)" joined by "; ", in the order of
-// Photo.Checks.
+// Photo.Checks; "readings" packs each reading as "utc (UTC±hh:mm abbreviation)
+// verdict", the one used marked "(used)", joined by "; ".
 func CSVColumns() []string { return slices.Clone(csvHeader) }
 
 var csvHeader = []string{
 	"path", "root", "sha256", "size", "container", "camera", "claimed_local", "claim_source",
 	"zone", "claimed_utc", "lat", "lon", "sun_azimuth", "sun_altitude", "verdict",
 	"offset_s", "offset_low_s", "offset_high_s", "corrected_utc_earliest", "corrected_utc_latest",
-	"checks", "explanation", "error", "file_notes", "season_bands",
+	"checks", "explanation", "error", "file_notes", "season_bands", "readings", "claim_notes",
 }
 
 // WriteCSV writes one row per photo (sorted by path, then root) under
@@ -91,6 +92,7 @@ func (s *csvSink) Photo(p *Photo) error {
 		NeutraliseCell(checksCell(p.Checks)),
 		NeutraliseCell(p.Explanation), NeutraliseCell(p.Error), NeutraliseCell(strings.Join(p.FileNotes, "; ")),
 		NeutraliseCell(seasonBandsCell(p.SeasonBands)),
+		NeutraliseCell(readingsCell(p.Readings)), NeutraliseCell(strings.Join(p.ClaimNotes, "; ")),
 	)
 	if err := s.cw.Write(s.row); err != nil {
 		return s.fail(fmt.Errorf("row for %q: %w", p.Path, err))
@@ -188,4 +190,21 @@ func NeutraliseCell(s string) string {
 		return "'" + s
 	}
 	return s
+}
+
+// readingsCell packs the readings of a wall time for one CSV cell.
+func readingsCell(rs []Reading) string {
+	parts := make([]string, 0, len(rs))
+	for _, r := range rs {
+		s := r.UTC + " (UTC" + r.UTCOffset
+		if r.Abbreviation != "" {
+			s += " " + r.Abbreviation
+		}
+		s += ") " + r.Verdict
+		if r.Used {
+			s += " (used)"
+		}
+		parts = append(parts, s)
+	}
+	return strings.Join(parts, "; ")
 }

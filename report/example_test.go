@@ -123,7 +123,7 @@ func ExampleVisible() {
 func ExampleCSVColumns() {
 	cols := report.CSVColumns()
 	fmt.Println(len(cols), cols[0], cols[len(cols)-1])
-	// Output: 25 path season_bands
+	// Output: 27 path claim_notes
 }
 
 // A caller that produces photos one at a time, in report order, streams them

@@ -111,6 +111,32 @@ func fixtureAudit() *Audit {
 		Explanation: "The shadows fit the GPS time only about 800 km to the south-east."}, at(10, 10))
 	season := photo(Photo{Path: "z/winter.jpg", Camera: "cam-A", Verdict: "season_mismatch", Explanation: "The noon sun is 43° lower than in June."}, at(12, 0))
 	dst := photo(Photo{Path: "z/dst.jpg", Camera: "cam-B", Verdict: "dst_slip", Explanation: "One hour off: the clock kept winter time."}, at(16, 0))
+	twice := photo(Photo{Path: "z/twice.jpg", Camera: "cam-B", Verdict: "ambiguous",
+		Explanation: "The wall time 2025-11-02 01:30:00 came twice in America/New_York: the clocks were put back over it. The evidence does not tell which reading was meant, so no verdict is given on the time.",
+		ClaimNotes:  []string{"In America/New_York this wall time came twice: the clocks went back at 2025-11-02 06:00 UTC; both readings are kept"},
+		Readings: []Reading{
+			{UTC: "2025-11-02T05:30:00Z", UTCOffset: "-04:00", Abbreviation: "EDT", Zone: "America/New_York", WallTimeExisted: true, Verdict: "unverified", Explanation: "No independent witness."},
+			{UTC: "2025-11-02T06:30:00Z", UTCOffset: "-05:00", Abbreviation: "EST", Zone: "America/New_York", WallTimeExisted: true, Verdict: "unverified", Explanation: "No independent witness."},
+		}}, at(5, 30))
+	used := photo(Photo{Path: "z/used.jpg", Camera: "cam-B", Verdict: "consistent",
+		Explanation: "The evidence fits only the reading UTC−05:00 (EST), which is used.", OffsetS: fp(-5), OffsetLowS: fp(-15), OffsetHighS: fp(13),
+		Readings: []Reading{
+			{UTC: "2025-11-02T05:30:00Z", UTCOffset: "-04:00", Abbreviation: "EDT", Zone: "America/New_York", WallTimeExisted: true, Verdict: "dst_slip", OffsetS: fp(-3605), OffsetLowS: fp(-3615), OffsetHighS: fp(-3587), Explanation: "One hour off."},
+			{UTC: "2025-11-02T06:30:00Z", UTCOffset: "-05:00", Abbreviation: "EST", Zone: "America/New_York", WallTimeExisted: true, Used: true, Verdict: "consistent", OffsetS: fp(-5), OffsetLowS: fp(-15), OffsetHighS: fp(13), Explanation: "Consistent."},
+		}}, at(6, 30))
+	// A New York photo at the repeated hour of 2025-11-02 (15 U.S.C. §260a):
+	// its own place, zone and wall time, not the harbour's.
+	newYork := func(p *Photo, wall string) {
+		p.Zone, p.ClaimSource, p.ClaimedLocal = "America/New_York", "place_zone", wall
+		p.Lat, p.Lon = fp(40.7128), fp(-74.006)
+		p.SunPath = sunDay(time.Date(2025, 11, 1, 18, 0, 0, 0, time.UTC), 40.7128, -74.006)
+	}
+	newYork(&twice, "2025:11:02 01:30:00")
+	twice.ClaimedUTC, twice.Sun = "", nil
+	newYork(&used, "2025:11:02 01:30:00")
+	used.ClaimedUTC = "2025-11-02T06:30:00Z"
+	usedSun := approxSun(time.Date(2025, 11, 2, 6, 30, 0, 0, time.UTC), 40.7128, -74.006)
+	used.Sun = &usedSun
 
 	var pts []ClockPoint
 	for i := range 9 {
@@ -139,7 +165,7 @@ func fixtureAudit() *Audit {
 			SheetErrors: []string{"sheet.csv:4:3: " + hostFormula},
 			Notes:       []string{hostSVG},
 		},
-		Photos: []Photo{hostile, zone, ok, drift, night, broken, weird, place, season, dst},
+		Photos: []Photo{hostile, zone, ok, drift, night, broken, weird, place, season, dst, twice, used},
 		Cameras: []Camera{
 			{ID: "cam-B", Photos: 9, OffsetS: fp(380), OffsetSDs: fp(12), DriftSPerDay: fp(5), DriftPPM: fp(57.9), OffsetAtUTC: pts[4].ClaimedUTC,
 				Outliers: []string{pts[6].Path}, Points: pts, Note: "Drifts about 2.5 minutes a month."},

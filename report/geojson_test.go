@@ -126,8 +126,8 @@ func TestGeoJSONStructure(t *testing.T) {
 			t.Errorf("feature %d: [%v, %v] out of range (RFC 7946 §3.1.1)", i, lon, lat)
 		}
 	}
-	// The fixture: 9 photos with GPS tags (one of them invalid), one shadow fix.
-	if kinds[FeatureGPS] != 9 || kinds[FeatureShadowFix] != 1 || skipped != 1 {
-		t.Errorf("kinds %v, %d skipped; want 9 gps, 1 shadow_fix, 1 skipped", kinds, skipped)
+	// The fixture: 11 photos with GPS tags (one of them invalid), one shadow fix.
+	if kinds[FeatureGPS] != 11 || kinds[FeatureShadowFix] != 1 || skipped != 1 {
+		t.Errorf("kinds %v, %d skipped; want 11 gps, 1 shadow_fix, 1 skipped", kinds, skipped)
 	}
 }

@@ -58,18 +58,20 @@ var verdictStyles = []verdictStyle{
 	{"season_mismatch", "Wrong season", "The sun's path fits another time of year, not the claimed date.", "v-season", "leaf"},
 	{"place_mismatch", "Wrong place", "The sun fits the claimed time only somewhere else on Earth.", "v-place", "pin"},
 	{"light_mismatch", "Light disagrees", "The exposure needs far more or less light than the sun gave then.", "v-light", "rays"},
+	{"ambiguous", "Two readings", "The wall time means more than one instant (an hour repeated or skipped by a clock change, or zones that overlap) and the evidence does not say which.", "v-none", "split"},
 	{"unverified", "Not testable", "Nothing independent was available to test the claim.", "v-none", "ring"},
 	{"unreadable", "Could not read", "The file could not be read; the reason is given.", "v-bad", "cross"},
 	{"sidecar", "Read with its photo", "An XMP sidecar file: its contents are read with the photo it belongs to.", "v-none", "ring"},
 }
 
 // Flagged reports whether a verdict calls for the examiner's attention:
-// every verdict but consistent, unverified and sidecar (a file read with
-// its photo). It is the one rule behind the choice of HTML cards and the
-// audit's --strict exit status.
+// every verdict but consistent, unverified, ambiguous (a wall time with
+// several readings the evidence does not separate: no accusation, like
+// unverified) and sidecar (a file read with its photo). It is the one rule
+// behind the choice of HTML cards and the audit's --strict exit status.
 func Flagged(verdict string) bool {
 	switch verdict {
-	case "consistent", "unverified", "sidecar":
+	case "consistent", "unverified", "ambiguous", "sidecar":
 		return false
 	}
 	return true

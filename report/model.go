@@ -79,11 +79,20 @@ type Photo struct {
 	ClaimSource  string   `json:"claim_source"`  // which rule decided the claimed instant
 	Zone         string   `json:"zone"`          // IANA name of the place's zone
 	ZoneOptions  []string `json:"zone_candidates"`
-	ClaimedUTC   string   `json:"claimed_utc"`
-	Lat          *float64 `json:"lat"`
-	Lon          *float64 `json:"lon"`
-	Sun          *SunAt   `json:"sun"` // at the claimed moment and place
-	Checks       []Check  `json:"checks"`
+	ClaimedUTC   string   `json:"claimed_utc"` // "" when the verdict is ambiguous: see Readings
+	// Readings are the instants the wall time may denote when it has
+	// several (a wall time the zone repeated or skipped at a daylight-saving
+	// change, or zones that overlap at the place), each with the outcome of
+	// the checks under it; absent when there is one.
+	Readings []Reading `json:"readings,omitempty"`
+	// ClaimNotes are what deciding the claimed instant noticed, in plain
+	// words: a repeated or skipped wall time, overlapping zones, an offset
+	// tag or override that took precedence.
+	ClaimNotes []string `json:"claim_notes,omitempty"`
+	Lat        *float64 `json:"lat"`
+	Lon        *float64 `json:"lon"`
+	Sun        *SunAt   `json:"sun"` // at the claimed moment and place
+	Checks     []Check  `json:"checks"`
 
 	Verdict              string        `json:"verdict"`
 	OffsetS              *float64      `json:"offset_s"` // claimed minus evidence
@@ -120,6 +129,26 @@ type Photo struct {
 	SunPath []SunAt `json:"-"`
 	// BestFit is the sun at the best-fitting shadow time, for the HTML chart.
 	BestFit *SunAt `json:"-"`
+}
+
+// Reading is one instant a photo's wall time may denote, with the outcome
+// of the checks when the wall time is read so.
+type Reading struct {
+	UTC          string `json:"utc"`          // RFC 3339
+	UTCOffset    string `json:"utc_offset"`   // the offset this reading assumes, "-05:00"
+	Abbreviation string `json:"abbreviation"` // the zone's abbreviation for it ("EST"); "" when none
+	Zone         string `json:"zone"`         // IANA zone name, or the offset label of an override
+	// WallTimeExisted is false for both readings of a wall time the zone
+	// skipped: no clock on the legal time there showed it.
+	WallTimeExisted bool `json:"wall_time_existed"`
+	// Used marks the reading the verdict and figures follow; none is used
+	// when the verdict is "ambiguous".
+	Used        bool     `json:"used"`
+	Verdict     string   `json:"verdict"`
+	OffsetS     *float64 `json:"offset_s"` // claimed minus evidence under this reading
+	OffsetLowS  *float64 `json:"offset_low_s"`
+	OffsetHighS *float64 `json:"offset_high_s"`
+	Explanation string   `json:"explanation"`
 }
 
 // SunAt is a sun position; Time is RFC 3339 UTC ("" when not meaningful).

@@ -121,7 +121,24 @@ func photo(e Entry, s *stored) report.Photo {
 	}
 	if f.HasClaimed {
 		p.ClaimSource = string(f.Claim.Rule)
-		p.ClaimedUTC = stamp(f.Claimed)
+		if f.Verdict != solarcheck.Ambiguous {
+			p.ClaimedUTC = stamp(f.Claimed)
+		}
+	}
+	p.ClaimNotes = f.Claim.Notes
+	for i, r := range f.Readings {
+		c := r.Candidate
+		rr := report.Reading{UTC: stamp(c.UTC), UTCOffset: c.UTC.In(time.FixedZone("", c.OffsetSec)).Format("-07:00"),
+			Abbreviation: c.Abbrev, Zone: c.Zone, WallTimeExisted: c.Real, Used: i == f.ReadingUsed,
+			Verdict: string(r.Verdict), Explanation: r.Explanation}
+		if c.Abbrev != "" && (c.Abbrev[0] == '+' || c.Abbrev[0] == '-') {
+			rr.Abbreviation = "" // the tz database's numeric stand-in, not a name
+		}
+		if r.Offset != nil {
+			step := figure.IntervalStep(r.Offset.LowSec, r.Offset.HighSec)
+			rr.OffsetS, rr.OffsetLowS, rr.OffsetHighS = ptr(figure.Round(r.Offset.Sec, step)), ptr(figure.Round(r.Offset.LowSec, step)), ptr(figure.Round(r.Offset.HighSec, step))
+		}
+		p.Readings = append(p.Readings, rr)
 	}
 	// The zone is the place's when the place is known (the claim may have
 	// used an offset tag instead); otherwise whatever the claim used.
