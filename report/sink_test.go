@@ -293,11 +293,12 @@ func BenchmarkJSONSink(b *testing.B) {
 }
 
 // TestFlagged: the verdicts that call for attention are those that say
-// something is off (README, verdict table); a photo nothing could test and
-// a sidecar read with its photo do not.
+// something is off (README, verdict table); a photo nothing could test, a
+// wall time whose readings the evidence does not separate (no accusation)
+// and a sidecar read with its photo do not.
 func TestFlagged(t *testing.T) {
 	for _, s := range verdictStyles {
-		want := !(s.Code == "consistent" || s.Code == "unverified" || s.Code == "sidecar")
+		want := !(s.Code == "consistent" || s.Code == "unverified" || s.Code == "ambiguous" || s.Code == "sidecar")
 		if Flagged(s.Code) != want {
 			t.Errorf("Flagged(%q) = %v, want %v", s.Code, !want, want)
 		}
