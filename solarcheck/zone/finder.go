@@ -60,8 +60,9 @@ type Place struct {
 }
 
 // ZoneMapVersion returns the version of the boundary data (e.g. "2025b") and of the
-// Go modules that carry it. It reads the version field only; the boundaries are
-// not decoded.
+// Go module that carries it. It reads the version field only; the boundaries are
+// not decoded. (tzf's own code is not in the binary: only its data, read with its
+// rules; see zonemap.go.)
 func (f *Finder) ZoneMapVersion() (string, error) {
 	dv, err := zoneMapDataVersion(tzfrellite.LiteCompressData)
 	if err != nil {
@@ -74,8 +75,8 @@ func (f *Finder) ZoneMapVersion() (string, error) {
 	return v, nil
 }
 
-// moduleVersions reads the tzf module versions from the build information, when the
-// binary carries it.
+// moduleVersions reads the version of the module carrying the boundary data from
+// the build information, when the binary carries it.
 func moduleVersions() string {
 	bi, ok := debug.ReadBuildInfo()
 	if !ok {
@@ -83,7 +84,7 @@ func moduleVersions() string {
 	}
 	var parts []string
 	for _, d := range bi.Deps {
-		if d.Path == "github.com/ringsaturn/tzf" || d.Path == "github.com/ringsaturn/tzf-rel-lite" {
+		if d.Path == "github.com/ringsaturn/tzf-rel-lite" {
 			parts = append(parts, d.Path+" "+d.Version)
 		}
 	}

@@ -12,6 +12,6 @@ const TZDataVersion = "2025c"
 // tzdataSHA256 is the SHA-256 of the embedded zoneinfo.zip, checked by the tests.
 const tzdataSHA256 = "8f55634d05f8bca1f7bc7c69c5933428c69357e0bdf565e5ba224e3f88ff12e8"
 
-// zoneMapModules are the tzf module versions required by go.mod when this file
+// zoneMapModules is the boundary data module version required by go.mod when this file
 // was generated; the build information, when present, takes precedence.
-const zoneMapModules = "github.com/ringsaturn/tzf v1.0.2, github.com/ringsaturn/tzf-rel-lite v0.0.2025-b2"
+const zoneMapModules = "github.com/ringsaturn/tzf-rel-lite v0.0.2025-b2"

@@ -59,7 +59,7 @@ func main() {
 	fmt.Fprintf(&b, "const TZDataVersion = %q\n\n", data)
 	fmt.Fprintf(&b, "// tzdataSHA256 is the SHA-256 of the embedded zoneinfo.zip, checked by the tests.\n")
 	fmt.Fprintf(&b, "const tzdataSHA256 = \"%x\"\n", sha256.Sum256(zipBytes))
-	fmt.Fprintf(&b, "\n// zoneMapModules are the tzf module versions required by go.mod when this file\n")
+	fmt.Fprintf(&b, "\n// zoneMapModules is the boundary data module version required by go.mod when this file\n")
 	fmt.Fprintf(&b, "// was generated; the build information, when present, takes precedence.\n")
 	fmt.Fprintf(&b, "const zoneMapModules = %q\n", mods)
 	if err := os.WriteFile("tzversion_gen.go", b.Bytes(), 0o644); err != nil {
@@ -93,7 +93,7 @@ func versions(path string) (code, data string, err error) {
 	return code, data, nil
 }
 
-// tzfModules returns "path version" for the tzf modules listed in go.mod.
+// tzfModules returns "path version" for the module of the boundary data (tzf-rel-lite) in go.mod.
 func tzfModules(gomod string) (string, error) {
 	data, err := os.ReadFile(gomod)
 	if err != nil {
@@ -102,12 +102,12 @@ func tzfModules(gomod string) (string, error) {
 	var parts []string
 	for _, line := range strings.Split(string(data), "\n") {
 		f := strings.Fields(line)
-		if len(f) >= 2 && (f[0] == "github.com/ringsaturn/tzf" || f[0] == "github.com/ringsaturn/tzf-rel-lite") {
+		if len(f) >= 2 && f[0] == "github.com/ringsaturn/tzf-rel-lite" {
 			parts = append(parts, f[0]+" "+f[1])
 		}
 	}
 	if len(parts) == 0 {
-		return "", fmt.Errorf("%s: no github.com/ringsaturn/tzf requirement", gomod)
+		return "", fmt.Errorf("%s: no github.com/ringsaturn/tzf-rel-lite requirement", gomod)
 	}
 	return strings.Join(parts, ", "), nil
 }
