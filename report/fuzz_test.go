@@ -7,7 +7,6 @@ import (
 	"math"
 	"strings"
 	"testing"
-	"unicode/utf8"
 
 	"github.com/gnomon-forensics/gnomon/internal/testkit/browsertest"
 )
@@ -129,20 +128,4 @@ func FuzzGeoJSON(f *testing.F) {
 			t.Fatalf("bad point %v for lat %v lon %v", g.Coordinates, lat, lon)
 		}
 	})
-}
-
-// invalidToReplacement replaces each invalid byte with U+FFFD, as
-// encoding/json does (strings.ToValidUTF8 merges runs of them).
-func invalidToReplacement(s string) string {
-	var b strings.Builder
-	for i := 0; i < len(s); {
-		r, n := utf8.DecodeRuneInString(s[i:])
-		if r == utf8.RuneError && n == 1 {
-			b.WriteRune(utf8.RuneError)
-		} else {
-			b.WriteString(s[i : i+n])
-		}
-		i += n
-	}
-	return b.String()
 }
