@@ -1,0 +1,61 @@
+package report
+
+import (
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+)
+
+// TestClockChartSegments: a camera whose clock was reset between two
+// segments gets one fitted line per segment, over that segment's points
+// only, and a dashed reset line between them (issue 19: "the chart shows
+// the break"). A camera without segments keeps one line over all points.
+// Hand-built cases.
+func TestClockChartSegments(t *testing.T) {
+	day := time.Date(2026, 1, 10, 12, 0, 0, 0, time.UTC)
+	var pts []ClockPoint
+	for i := range 8 {
+		seg, off := 0, 5.0
+		if i >= 4 {
+			seg, off = 1, 3605
+		}
+		ts := day.Add(time.Duration(i) * 24 * time.Hour).Format(time.RFC3339)
+		pts = append(pts, ClockPoint{Path: "p", ClaimedUTC: ts, OffsetS: off, LowS: off - 5, HighS: off + 5, Segment: seg})
+	}
+	f := func(v float64) *float64 { return &v }
+	c := Camera{ID: "x", OffsetS: f(5), Points: pts, Segments: []ClockSegment{
+		{OffsetS: f(5), OffsetAtUTC: pts[1].ClaimedUTC},
+		{OffsetS: f(3605), OffsetAtUTC: pts[5].ClaimedUTC},
+	}}
+	ch := buildClock(c).Chart
+	if ch == nil {
+		t.Fatal("no chart")
+	}
+	if n := strings.Count(ch.Line, "M"); n != 2 {
+		t.Errorf("line %q: %d pieces, want one per segment", ch.Line, n)
+	}
+	if len(ch.Breaks) != 1 {
+		t.Fatalf("breaks %v, want one reset", ch.Breaks)
+	}
+	// The break lies between the 4th and 5th points.
+	x3, x4, xb := num(t, ch.Points[3].X), num(t, ch.Points[4].X), num(t, ch.Breaks[0])
+	if !(x3 < xb && xb < x4) {
+		t.Errorf("break at x=%v, not between %v and %v", xb, x3, x4)
+	}
+
+	c.Segments = nil
+	ch = buildClock(c).Chart
+	if n := strings.Count(ch.Line, "M"); n != 1 || len(ch.Breaks) != 0 {
+		t.Errorf("without segments: line %q, breaks %v", ch.Line, ch.Breaks)
+	}
+}
+
+func num(t *testing.T, s string) float64 {
+	t.Helper()
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil {
+		t.Fatalf("%q: %v", s, err)
+	}
+	return v
+}
