@@ -7,6 +7,7 @@ import (
 	"sort"
 	"time"
 
+	"github.com/gnomon-forensics/gnomon/internal/figure"
 	"github.com/gnomon-forensics/gnomon/solarcheck/clock"
 )
 
@@ -268,7 +269,7 @@ func (x *Examiner) Apply(p CameraPhoto, f *Finding) {
 		f.FromCamera = true
 		f.Earliest = mp.Corrected.Add(-mp.HalfWidth95)
 		f.Latest = mp.Corrected.Add(mp.HalfWidth95)
-		f.Explanation = fmt.Sprintf("No witness of its own; by its camera's clock, fitted from %s (%s), the photo was taken between %s and %s UTC.",
+		f.Explanation = fmt.Sprintf("No witness of its own. Its camera's clock, fitted from %s with a time witness, was %s; by that clock the photo was taken between %s and %s UTC.",
 			otherPhotos(seg.Points), clockSummary(seg), f.Earliest.Format(time.DateTime), f.Latest.Format(time.DateTime))
 	}
 }
@@ -331,22 +332,19 @@ func otherPhotos(n int) string {
 // the zone it is set to, at a stated date, and its drift or why none is
 // given.
 func clockSummary(s clock.Segment) string {
-	zone := "UTC"
-	if s.Zone.Decided {
-		zone = offsetLabel(s.Zone.OffsetSec)
-	}
-	out := fmt.Sprintf("set to %s and off by %s ± %s on %s", zone, signedDuration(s.ErrorSec()), unsignedDuration(s.OffsetHalf95Sec), s.T0.Format(time.DateOnly))
+	e, h := s.ErrorSec(), s.OffsetHalf95Sec
+	sec, low, high := Interval{Sec: e, LowSec: e - h, HighSec: e + h}.spans()
+	out := fmt.Sprintf("set to %s and off by %s (95 %% interval %s to %s) on %s", offsetLabel(s.Zone.OffsetSec), sec, low, high, s.T0.Format(time.DateOnly))
 	if !s.Zone.Decided {
-		out = fmt.Sprintf("its zone setting not decided; %s off UTC ± %s on %s", signedDuration(s.ErrorSec()), unsignedDuration(s.OffsetHalf95Sec), s.T0.Format(time.DateOnly))
+		out = fmt.Sprintf("%s off UTC (95 %% interval %s to %s) on %s, the zone it was set to not decided", sec, low, high, s.T0.Format(time.DateOnly))
 	}
 	if s.DriftMeasured {
-		return out + fmt.Sprintf(", drift %+.1f s/day (95 %% interval %+.1f to %+.1f)", s.DriftSecPerDay, s.DriftLowSecPerDay, s.DriftHighSecPerDay)
+		u := max(s.DriftHighSecPerDay-s.DriftSecPerDay, s.DriftSecPerDay-s.DriftLowSecPerDay)
+		return out + fmt.Sprintf(", drift %s s/day (95 %% interval %s to %s)",
+			figure.Number(s.DriftSecPerDay, u, 1), figure.Number(s.DriftLowSecPerDay, u, 1), figure.Number(s.DriftHighSecPerDay, u, 1))
 	}
 	return out + ", drift not determined"
 }
-
-// unsignedDuration is signedDuration without its sign.
-func unsignedDuration(sec float64) string { return signedDuration(sec)[1:] }
 
 // OffsetLabel formats an offset from UTC as "UTC+05:30", as reports name
 // the zone a camera's clock is set to.

@@ -15,8 +15,8 @@ import (
 
 func runDemo(e env, args []string) int {
 	fs := newFlagSet(e, "demo", "gnomon demo [--out DIR]",
-		"Build an invented case (fictional demo data: a boatyard's storm-damage claim, 30 photos from\n"+
-			"8 sources with planted clock faults and a filled measurement sheet) in a fresh folder, audit it,\n"+
+		"Build an invented case (fictional demo data: a boatyard's storm-damage claim, 37 photos from\n"+
+			"9 sources with planted clock faults and a filled measurement sheet) in a fresh folder, audit it,\n"+
 			"and print where the report is. DIR/CASE.txt tells the story and lists the planted faults.")
 	out := fs.String("out", "gnomon-demo", "folder `DIR` to create for the case and its report (must not exist, or be empty)")
 	quiet := fs.Bool("quiet", false, "no progress on stderr")

@@ -234,7 +234,8 @@ func camera(c *solarcheck.Camera) report.Camera {
 	rc.OffsetSDs = ptr(round(seg.OffsetHalf95Sec/1.96, 1))
 	rc.DriftSPerDay, rc.DriftLowSPerDay, rc.DriftHighSPerDay, rc.DriftNote = top.DriftSPerDay, top.DriftLowSPerDay, top.DriftHighSPerDay, top.DriftNote
 	if seg.DriftMeasured {
-		rc.DriftPPM = ptr(round(seg.DriftPPM(), 2))
+		half := max(seg.DriftHighSecPerDay-seg.DriftSecPerDay, seg.DriftSecPerDay-seg.DriftLowSecPerDay)
+		rc.DriftPPM = ptr(figure.Round(seg.DriftPPM(), figure.Step(half/86400*1e6)))
 	}
 	if len(c.Model.Segments) > 1 {
 		rc.Note = fmt.Sprintf("The clock was reset %d time(s); the figures above are for the segment with the most evidence (%d photos with a time witness); every segment is listed.", len(c.Model.Segments)-1, seg.Points)
@@ -262,11 +263,13 @@ func camera(c *solarcheck.Camera) report.Camera {
 // drift with its interval or the reason none is stated.
 func clockSegment(s clock.Segment) report.ClockSegment {
 	z := time.Duration(s.Zone.OffsetSec) * time.Second
+	e, h := s.ErrorSec(), s.OffsetHalf95Sec
+	step := figure.IntervalStep(e-h, e+h) // the figures as the sentences round them
 	out := report.ClockSegment{
 		From: stamp(s.First.Add(-z)), To: stamp(s.Last.Add(-z)), Photos: s.Points,
-		OffsetS:     ptr(round(s.ErrorSec(), 1)),
-		OffsetLowS:  ptr(round(s.ErrorSec()-s.OffsetHalf95Sec, 1)),
-		OffsetHighS: ptr(round(s.ErrorSec()+s.OffsetHalf95Sec, 1)),
+		OffsetS:     ptr(figure.Round(e, step)),
+		OffsetLowS:  ptr(figure.Round(e-h, step)),
+		OffsetHighS: ptr(figure.Round(e+h, step)),
 		OffsetAtUTC: stamp(s.T0.Add(-z)),
 		DriftNote:   s.DriftReason,
 	}
@@ -274,9 +277,10 @@ func clockSegment(s clock.Segment) report.ClockSegment {
 		out.ClockZone = solarcheck.OffsetLabel(s.Zone.OffsetSec)
 	}
 	if s.DriftMeasured {
-		out.DriftSPerDay = ptr(round(s.DriftSecPerDay, 3))
-		out.DriftLowSPerDay = ptr(round(s.DriftLowSecPerDay, 3))
-		out.DriftHighSPerDay = ptr(round(s.DriftHighSecPerDay, 3))
+		ds := figure.Step(max(s.DriftHighSecPerDay-s.DriftSecPerDay, s.DriftSecPerDay-s.DriftLowSecPerDay))
+		out.DriftSPerDay = ptr(figure.Round(s.DriftSecPerDay, ds))
+		out.DriftLowSPerDay = ptr(figure.Round(s.DriftLowSecPerDay, ds))
+		out.DriftHighSPerDay = ptr(figure.Round(s.DriftHighSecPerDay, ds))
 	}
 	return out
 }

@@ -78,10 +78,11 @@ func (o Options) withDefaults() Options {
 	return o
 }
 
-// zoneSlackSec is how far from a whole zone offset a clock may be and still
-// be read as set to that zone: a clock set by hand is often a minute or two
-// off (common practice; the same allowance the diagnosis gives zone steps).
-const zoneSlackSec = 120
+// zoneSlackSec is how far from a zone's offset a clock may be and still be
+// read as set to that zone: 15 minutes, about a year of a consumer quartz
+// clock's drift (common practice; the bound the report uses for an
+// ordinary clock error).
+const zoneSlackSec = 900
 
 // Segment is the clock model between two resets.
 type Segment struct {
@@ -115,7 +116,7 @@ type Zone struct {
 	Candidates []int
 	// OffsetSec is the one the witnesses support when Decided: the only
 	// candidate the clock's offset lies within its 95 % interval plus
-	// zoneSlackSec of.
+	// zoneSlackSec (15 min) of.
 	OffsetSec int
 	Decided   bool
 }
@@ -280,9 +281,10 @@ func Fit(points []Point, opt Options) (Model, error) {
 
 // segmentZone decides which of the zone offsets suggested by segment k's
 // photos its clock was set to: the only one its offset's 95 % interval,
-// widened by zoneSlackSec, reaches. Candidates differ by at least a quarter
-// hour, so a narrow interval picks at most one; a wide one, or a clock off
-// by more than a few minutes from every candidate, leaves it undecided.
+// widened by zoneSlackSec, reaches. Two candidates a quarter or half hour
+// apart may both be reached, and a wide interval reaches several: then, as
+// for a clock off by more than a quarter hour from every candidate, the
+// zone is undecided.
 func segmentZone(points []Point, photos []Photo, k int, s Segment) Zone {
 	seen := map[int]bool{}
 	var z Zone
@@ -436,8 +438,8 @@ func fitSegment(points []Point, idx []int, opt Options) Segment {
 	case err != nil || !l.CI:
 		s.DriftReason = fmt.Sprintf("%s: a drift and its 95 %% interval need at least 5 at different times", photoCount(len(idx)))
 	case (l.High-l.Low)/2 > opt.MaxDriftHalfWidth:
-		s.DriftReason = fmt.Sprintf("the %d photos with a time witness span %s, too short a time to tell a drift (the 95 %% interval would be %+.0f to %+.0f s/day)",
-			len(idx), spanText(s.Last.Sub(s.First)), l.Low, l.High)
+		s.DriftReason = fmt.Sprintf("its 95 %% interval would be %+.0f to %+.0f s/day, too wide to say anything about a clock (the %d photos with a time witness span %s)",
+			l.Low, l.High, len(idx), spanText(s.Last.Sub(s.First)))
 	default:
 		s.DriftSecPerDay, s.DriftLowSecPerDay, s.DriftHighSecPerDay, s.DriftMeasured = l.Slope, l.Low, l.High, true
 	}

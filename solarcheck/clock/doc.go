@@ -11,9 +11,9 @@
 // offset and one drift, and whether each photo's time fits its place's
 // zone is the photo's own finding. The zone the clock is set to is chosen
 // per segment among the offsets the photos suggest (the places' zones, the
-// offset tags): the only one the offset's 95 % interval, widened by two
-// minutes, reaches; otherwise it is undecided and the offset is stated
-// against UTC.
+// offset tags): the only one the offset's 95 % interval, widened by 15
+// minutes (a year of quartz drift), reaches; otherwise it is undecided and
+// the offset is stated against UTC.
 //
 // Methods:
 //

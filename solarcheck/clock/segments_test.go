@@ -31,7 +31,7 @@ func TestDriftNotDetermined(t *testing.T) {
 		{"1 photo: no slope exists (hand check)", pts(1, 0, 0), false, "only 1 photo"},
 		{"2 photos 4 h apart, 2 s apart in offset: the issue's 736.6 s/day case", pts(2, 4*time.Hour, 0), false, "only 2 photos"},
 		{"4 photos: Sen's rank M1 = (6 − 5.77)/2 rounds to 0 (hand check)", pts(4, 24*time.Hour, 1), false, "at least 5"},
-		{"6 photos in 50 minutes: interval hundreds of s/day wide (hand check: 4 s / 0.03 day)", pts(6, 10*time.Minute, 0), false, "too short a time"},
+		{"6 photos in 50 minutes: interval hundreds of s/day wide (hand check: 4 s / 0.03 day)", pts(6, 10*time.Minute, 0), false, "too wide"},
 		{"8 photos over a week at 1 s/day: drift stated (simulation)", pts(8, 24*time.Hour, 1), true, ""},
 	}
 	for _, c := range cases {
@@ -139,8 +139,9 @@ func TestFactoryReset(t *testing.T) {
 
 // TestSegmentZone: a camera kept on its home time (UTC+1) while carried one
 // and two zones east has one clock; the witnesses pick the zone it is set
-// to among the places' offsets. Witnesses too wide to tell zones apart
-// leave it undecided (hand-built cases).
+// to among the places' offsets (the only one within 15 min plus the
+// interval). Witnesses too wide to tell zones apart, two candidates within
+// reach, or none, leave it undecided (hand-built cases).
 func TestSegmentZone(t *testing.T) {
 	r := rand.New(rand.NewPCG(3, 4))
 	build := func(zones [][]int, half float64) []Point {
@@ -159,7 +160,10 @@ func TestSegmentZone(t *testing.T) {
 	}{
 		{"GPS clock, home then one zone east", [][]int{{3600}, {3600}, {7200}, {7200}, {7200}, {3600}}, 3, true},
 		{"GPS clock, home, one and two zones east", [][]int{{3600}, {7200}, {10800}, {10800}, {7200}, {3600}}, 3, true},
+		{"GPS clock, both places half an hour from its setting (UTC+00:30 and +01:30): neither within 15 min", [][]int{{1800}, {5400}}, 3, false},
 		{"two shadow photos ±83 min: cannot tell +1 h from +2 h", [][]int{{3600}, {7200}}, 5000, false},
+		{"a clock 10 min fast on UTC+00:50 (hand-built): within the 15 min a quartz clock drifts in a year", [][]int{{3000}, {3000}, {3000}}, 3, true},
+		{"a clock 3 h from every place's offset (a camera on another continent's time): undecided", [][]int{{-7200}, {-7200}, {-7200}}, 3, false},
 	}
 	for _, c := range cases {
 		m, err := Fit(build(c.zones, c.half), Options{})
@@ -171,7 +175,7 @@ func TestSegmentZone(t *testing.T) {
 			continue
 		}
 		s := m.Segments[0]
-		if s.Zone.Decided != c.decided || (c.decided && s.Zone.OffsetSec != 3600) {
+		if s.Zone.Decided != c.decided || (c.decided && s.Zone.OffsetSec != c.zones[0][0]) {
 			t.Errorf("%s: zone %+v", c.source, s.Zone)
 		}
 		for _, p := range m.Photos {
