@@ -142,6 +142,11 @@ func (x *Examiner) Examine(p Photo) Finding {
 		LonDeg:   f.LonDeg,
 	})
 	f.Claim = claim
+	if !wall.IsZero() && !override.Wall.IsZero() && !override.Time.HasInstant {
+		ow := override.Wall
+		f.Claim.Notes = append(f.Claim.Notes, "The sheet's time "+strings.Replace(ow.String(), "T", " ", 1)+
+			" was not used: it has no offset, and the file has its own capture time; write the sheet's time with its offset to replace the file's")
+	}
 	if err != nil || len(claim.Candidates) == 0 {
 		f.Verdict = Unverified
 		f.Explanation = "The claimed time could not be placed in UTC"

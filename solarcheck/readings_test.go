@@ -4,6 +4,8 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
 )
 
 // TestReadingsOfARepeatedOrSkippedHour: a wall time that the place's zone
@@ -93,5 +95,22 @@ func TestReadingsOfARepeatedOrSkippedHour(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestSheetWallTimeBesideTheFiles: a sheet time without offset only stands
+// in for a missing capture time; beside the file's own it is not used, and
+// the claim's notes say so rather than drop it silently.
+func TestSheetWallTimeBesideTheFiles(t *testing.T) {
+	s := scene{wall: time.Date(2025, 6, 1, 12, 0, 0, 0, time.UTC), lat: 40.7128, lon: -74.006, gps: true}
+	p := s.photo(t, "p.jpg")
+	p.Override.Wall = zone.Wall{Year: 2025, Month: time.June, Day: 1, Hour: 13}
+	f := sharedExaminer().Examine(p)
+	// 12:00 EDT is 16:00 UTC (15 U.S.C. §260a: daylight time in June, UTC−4).
+	if !f.Claimed.Equal(time.Date(2025, 6, 1, 16, 0, 0, 0, time.UTC)) || f.WallTag != "DateTimeOriginal" {
+		t.Errorf("claimed %s from %s, want the file's 12:00 EDT = 16:00 UTC", f.Claimed, f.WallTag)
+	}
+	if n := strings.Join(f.Claim.Notes, " "); !strings.Contains(n, "2025-06-01 13:00:00 was not used") {
+		t.Errorf("notes %q do not say the sheet's time was not used", f.Claim.Notes)
 	}
 }
