@@ -86,6 +86,8 @@ type whenJSON struct {
 	// Closest is the time of least misfit when no time fits (null when
 	// something fits, or when the sun never rose in the range).
 	Closest *whenMatchJSON `json:"closest"`
+	// Warnings say where a figure is undefined (an azimuth at a pole).
+	Warnings []string `json:"warnings,omitempty"`
 	// Notes say where a midnight bounding the days was skipped or repeated
 	// in --zone, and which instant was taken.
 	Notes []string `json:"notes,omitempty"`
@@ -229,8 +231,8 @@ func runWhen(e env, args []string) int {
 		if !(*slope >= 0 && *slope < 90) {
 			return usageErr(fs, "--slope %g is outside 0..90 (exclusive)", *slope)
 		}
-		if math.IsNaN(*bearing) || math.IsInf(*bearing, 0) || math.IsNaN(*slopeToward) || math.IsInf(*slopeToward, 0) {
-			return usageErr(fs, "bearings must be finite numbers of degrees")
+		if !(*bearing >= 0 && *bearing <= 360) || !(*slopeToward >= 0 && *slopeToward <= 360) {
+			return usageErr(fs, "bearings must be degrees in 0..360 (clockwise from true north)")
 		}
 		sh := shadow.Shadow{Height: *height, Length: *length, BearingDeg: *bearing,
 			Ground: shadow.Ground{SlopeDeg: *slope, TowardDeg: *slopeToward}}
@@ -242,8 +244,8 @@ func runWhen(e env, args []string) int {
 		from0 = "shadow"
 	case set["azimuth"] || set["altitude"]:
 		if set["azimuth"] {
-			if math.IsNaN(*az) || math.IsInf(*az, 0) {
-				return usageErr(fs, "--azimuth %g is not an angle", *az)
+			if !(*az >= 0 && *az <= 360) {
+				return usageErr(fs, "--azimuth %g is outside 0..360 (degrees clockwise from true north)", *az)
 			}
 			m.HasAzimuth, m.AzimuthDeg, m.AzimuthSDDeg = true, angle.Norm360(*az), *azSD
 		}
@@ -258,6 +260,11 @@ func runWhen(e env, args []string) int {
 		return usageErr(fs, "a measurement is required: --azimuth and/or --altitude, or a shadow")
 	}
 
+	var warnings []string
+	if w := poleWarning(*lat); w != "" && m.HasAzimuth {
+		warnings = append(warnings, w+"; the azimuth measured cannot place the sun in time")
+		fmt.Fprintln(e.stderr, "gnomon when: warning: "+warnings[0])
+	}
 	res, err := invert.When(invert.Query{
 		Observer:    spa.NewObserver(*lat, *lon, 0),
 		From:        start,
@@ -270,7 +277,7 @@ func runWhen(e env, args []string) int {
 	if err != nil {
 		return fail(e.stderr, "when", err)
 	}
-	out := whenJSON{Query: whenQuery(fs, *lat, *lon, d0, d1, loc, m), Matches: []whenMatchJSON{}, Notes: dayNotes}
+	out := whenJSON{Query: whenQuery(fs, *lat, *lon, d0, d1, loc, m), Matches: []whenMatchJSON{}, Notes: dayNotes, Warnings: warnings}
 	for _, w := range res.Windows {
 		out.Matches = append(out.Matches, whenMatch(w))
 	}

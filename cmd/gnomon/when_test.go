@@ -48,6 +48,8 @@ func TestWhenExitCodes(t *testing.T) {
 		{"shadow and azimuth", with("--date", "2024-06-03", "--shadow-bearing", "300", "--height", "1", "--shadow-length", "1", "--azimuth", "3"), exitUsage, "not both"},
 		{"slope without direction", with("--date", "2024-06-03", "--shadow-bearing", "300", "--height", "1", "--shadow-length", "1", "--slope", "5"), exitUsage, "go together"},
 		{"altitude beyond 90", with("--date", "2024-06-03", "--altitude", "95"), exitUsage, "--altitude 95 is outside"},
+		{"azimuth beyond 360", with("--date", "2024-06-03", "--azimuth", "361"), exitUsage, "--azimuth 361 is outside 0..360"},
+		{"negative shadow bearing", with("--date", "2024-06-03", "--shadow-bearing", "-5", "--height", "1", "--shadow-length", "1"), exitUsage, "bearings must be degrees in 0..360"},
 		{"zero sd", with("--date", "2024-06-03", "--azimuth", "100", "--azimuth-sd", "0"), exitUsage, "--azimuth-sd 0 must be"},
 		{"unknown zone", with("--date", "2024-06-03", "--azimuth", "100", "--zone", "Atlantis/Capital"), exitUsage, "unknown --zone"},
 		{"unknown flag", with("--date", "2024-06-03", "--azimuth", "100", "--colour"), exitUsage, "flag provided but not defined"},
@@ -183,7 +185,7 @@ func TestWhenNothingFits(t *testing.T) {
 // At 48.85° N the sun climbs to at most 64.6° (90° − 48.85° + 23.44°;
 // common knowledge), so an altitude of 70° fits no time.
 func TestWhenJSONEchoesQuery(t *testing.T) {
-	code, out, stderr := captureRun("when", "--lat", "48.85", "--lon", "2.35", "--date", "2024-06-03", "--azimuth", "-242.6", "--altitude", "70", "--altitude-sd", "0.5", "--zone", "Europe/Paris", "--json")
+	code, out, stderr := captureRun("when", "--lat", "48.85", "--lon", "2.35", "--date", "2024-06-03", "--azimuth", "117.4", "--altitude", "70", "--altitude-sd", "0.5", "--zone", "Europe/Paris", "--json")
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
@@ -208,7 +210,7 @@ func TestWhenJSONEchoesQuery(t *testing.T) {
 	}
 	q := doc.Query
 	if q.Lat != 48.85 || q.Lon != 2.35 || q.From != "2024-06-03" || q.To != "2024-06-03" || q.Zone != "Europe/Paris" ||
-		q.Inputs["azimuth"] != -242.6 || q.Inputs["altitude"] != 70 || q.Inputs["altitude-sd"] != 0.5 ||
+		q.Inputs["azimuth"] != 117.4 || q.Inputs["altitude"] != 70 || q.Inputs["altitude-sd"] != 0.5 ||
 		q.Azimuth == nil || *q.Azimuth != 117.4 || q.AltitudeSD == nil || *q.AltitudeSD != 0.5 {
 		t.Errorf("query not echoed: %s", out)
 	}

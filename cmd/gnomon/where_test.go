@@ -7,6 +7,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/gnomon-forensics/gnomon/internal/sphere"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
 )
 
@@ -30,6 +31,11 @@ func TestWhereExitCodes(t *testing.T) {
 		{"altitude beyond 90", with("--altitude", "91"), exitUsage, "--altitude 91 is outside"},
 		{"sun below horizon", with("--altitude", "-10"), exitUsage, "--altitude -10 is outside"},
 		{"negative sd", with("--altitude-sd", "-1"), exitUsage, "--altitude-sd -1 must be"},
+		{"azimuth beyond 360", with("--azimuth", "400"), exitUsage, "--azimuth 400 is outside 0..360"},
+		{"negative azimuth", with("--azimuth", "-10"), exitUsage, "--azimuth -10 is outside 0..360"},
+		{"azimuth not a number", with("--azimuth", "NaN"), exitUsage, "--azimuth NaN is outside"},
+		{"azimuth sd beyond a half turn", with("--azimuth-sd", "200"), exitUsage, "--azimuth-sd 200 must be"},
+		{"altitude sd beyond 90", with("--altitude-sd", "95"), exitUsage, "--altitude-sd 95 must be"},
 		{"unknown flag", with("--lat", "3"), exitUsage, "flag provided but not defined"},
 	}
 	for _, tc := range tests {
@@ -42,15 +48,6 @@ func TestWhereExitCodes(t *testing.T) {
 			checkUsageError(t, tc.name, "where", stderr, tc.reason)
 		}
 	}
-}
-
-// haversineKm is the great-circle distance on a 6371 km sphere.
-func haversineKm(lat1, lon1, lat2, lon2 float64) float64 {
-	r := math.Pi / 180
-	s1 := math.Sin((lat2 - lat1) * r / 2)
-	s2 := math.Sin((lon2 - lon1) * r / 2)
-	h := s1*s1 + math.Cos(lat1*r)*math.Cos(lat2*r)*s2*s2
-	return 2 * 6371 * math.Asin(math.Min(1, math.Sqrt(h)))
 }
 
 func TestWhereJSON(t *testing.T) {
@@ -76,6 +73,9 @@ func TestWhereJSON(t *testing.T) {
 			Lat          *float64 `json:"lat"`
 			Lon          *float64 `json:"lon"`
 			RadiusKm     *float64 `json:"radius_km"`
+			SemiMajorKm  *float64 `json:"semi_major_km"`
+			SemiMinorKm  *float64 `json:"semi_minor_km"`
+			MajorAxisDeg *float64 `json:"major_axis_deg"`
 			Alternatives []struct {
 				Lat, Lon float64
 				RadiusKm float64 `json:"radius_km"`
@@ -84,17 +84,26 @@ func TestWhereJSON(t *testing.T) {
 		if err := json.Unmarshal([]byte(out), &doc); err != nil || doc.Lat == nil || doc.Lon == nil || doc.RadiusKm == nil {
 			t.Fatalf("%s: want {lat, lon, radius_km}: %v\n%s", tc.source, err, out)
 		}
-		best := haversineKm(*doc.Lat, *doc.Lon, tc.lat, tc.lon)
+		best := sphere.DistanceKm(*doc.Lat, *doc.Lon, tc.lat, tc.lon)
 		for _, a := range doc.Alternatives {
-			best = math.Min(best, haversineKm(a.Lat, a.Lon, tc.lat, tc.lon))
+			best = math.Min(best, sphere.DistanceKm(a.Lat, a.Lon, tc.lat, tc.lon))
 		}
 		// Output is rounded to 0.0001° (11 m).
 		if best > 0.05 {
 			t.Errorf("%s: nearest place %.3f km from the truth:\n%s", tc.source, best, out)
 		}
-		// Defaults 1° and 1°: at least 111 km × √5.991 ≈ 272 km.
+		// Defaults 1° and 1°: at least 111 km × √5.991 ≈ 272 km (5.991: χ²
+		// 95 % point for 2 dof, NIST/SEMATECH e-Handbook 1.3.6.7.4).
 		if *doc.RadiusKm < 270 || *doc.RadiusKm > 5000 {
 			t.Errorf("%s: radius %.1f km", tc.source, *doc.RadiusKm)
+		}
+		// The ellipse: the radius encloses it (√5.991 × the major semi-axis,
+		// to the printed rounding); the minor axis is the smaller; the
+		// bearing of an axis is a half turn at most.
+		if doc.SemiMajorKm == nil || doc.SemiMinorKm == nil || doc.MajorAxisDeg == nil ||
+			math.Abs(*doc.RadiusKm-math.Sqrt(5.991)**doc.SemiMajorKm) > 0.2 || *doc.SemiMinorKm > *doc.SemiMajorKm ||
+			*doc.MajorAxisDeg < 0 || *doc.MajorAxisDeg > 180 {
+			t.Errorf("%s: error ellipse missing or inconsistent:\n%s", tc.source, out)
 		}
 	}
 }
@@ -111,7 +120,7 @@ func TestWhereZenithCLI(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &doc); err != nil {
 		t.Fatal(err)
 	}
-	if d := haversineKm(doc.Lat, doc.Lon, p.SubsolarLatDeg, p.SubsolarLonDeg); d > 0.5 {
+	if d := sphere.DistanceKm(doc.Lat, doc.Lon, p.SubsolarLatDeg, p.SubsolarLonDeg); d > 0.5 {
 		t.Errorf("common knowledge: overhead sun: %.4f, %.4f is %.2f km from the subsolar point %.4f, %.4f",
 			doc.Lat, doc.Lon, d, p.SubsolarLatDeg, p.SubsolarLonDeg)
 	}
@@ -136,5 +145,27 @@ func TestWhereNothingFits(t *testing.T) {
 	code, out, stderr := captureRun("where", "--time", "2024-06-21T12:00:00Z", "--azimuth", "90", "--altitude", "5", "--json")
 	if code != exitFailure || out != "" || !strings.Contains(stderr, "no place") {
 		t.Errorf("%s: exit %d, stdout %q, stderr %q", source, code, out, stderr)
+	}
+}
+
+// TestPoleWarnings: at a pole every direction is south (north), so an
+// azimuth means nothing there (common knowledge). when --lat 90 with an
+// azimuth warns on stderr and in JSON; a place that is not at a pole does not.
+func TestPoleWarnings(t *testing.T) {
+	const source = "common knowledge: at the North Pole every direction is south"
+	code, out, stderr := captureRun("when", "--lat", "90", "--lon", "0", "--date", "2024-06-21", "--azimuth", "180", "--json")
+	if code != exitOK || !strings.Contains(stderr, "warning: the place is at the North Pole") || !strings.Contains(out, `"warnings"`) {
+		t.Errorf("%s: exit %d, stderr %q\n%s", source, code, stderr, out)
+	}
+	code, out, stderr = captureRun("when", "--lat", "-90", "--lon", "0", "--date", "2024-12-21", "--azimuth", "0")
+	if code != exitOK || !strings.Contains(stderr, "South Pole") {
+		t.Errorf("%s: exit %d, stderr %q\n%s", source, code, stderr, out)
+	}
+	code, out, stderr = captureRun("when", "--lat", "89.9", "--lon", "0", "--date", "2024-06-21", "--azimuth", "180", "--json")
+	if code != exitOK || strings.Contains(stderr, "warning") || strings.Contains(out, `"warnings"`) {
+		t.Errorf("no warning away from the pole: exit %d, stderr %q", code, stderr)
+	}
+	if w := poleWarning(89.99995); !strings.Contains(w, "North Pole") {
+		t.Errorf("a fix 5 m from the pole: %q", w)
 	}
 }
