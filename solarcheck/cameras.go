@@ -271,6 +271,16 @@ func (x *Examiner) Apply(p CameraPhoto, f *Finding) {
 		f.Latest = mp.Corrected.Add(mp.HalfWidth95)
 		f.Explanation = fmt.Sprintf("No witness of its own. Its camera's clock, fitted from %s with a time witness, was %s; by that clock the photo was taken between %s and %s UTC.",
 			otherPhotos(seg.Points), clockSummary(seg), f.Earliest.Format(time.DateTime), f.Latest.Format(time.DateTime))
+	case f.Offset == nil && f.Verdict == Ambiguous:
+		// The camera's clock is read in its own time scale, so its window
+		// does not depend on the reading; it may fit one reading only. Like
+		// an unverified photo's, the verdict stays: the photo has no witness
+		// of its own.
+		f.FromCamera = true
+		f.Earliest = mp.Corrected.Add(-mp.HalfWidth95)
+		f.Latest = mp.Corrected.Add(mp.HalfWidth95)
+		f.Explanation += " " + fmt.Sprintf("Its camera's clock, fitted from %s with a time witness, was %s; by that clock the photo was taken between %s and %s UTC, ",
+			otherPhotos(seg.Points), clockSummary(seg), f.Earliest.Format(time.DateTime), f.Latest.Format(time.DateTime)) + readingsInWindow(f)
 	}
 }
 

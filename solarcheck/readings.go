@@ -195,3 +195,24 @@ func sameChecks(a, b []Check) bool {
 	}
 	return true
 }
+
+// readingsInWindow says which readings of an ambiguous finding lie inside
+// its corrected window (from the camera's clock), ending the sentence that
+// gives the window.
+func readingsInWindow(f *Finding) string {
+	var in []string
+	for _, r := range f.Readings {
+		if !r.Candidate.UTC.Before(f.Earliest) && !r.Candidate.UTC.After(f.Latest) {
+			in = append(in, r.Candidate.String())
+		}
+	}
+	switch len(in) {
+	case 0:
+		return "which fits none of the readings."
+	case len(f.Readings):
+		return "which fits every reading."
+	case 1:
+		return "which fits only the reading " + in[0] + "."
+	}
+	return "which fits the readings " + strings.Join(in, " and ") + "."
+}

@@ -4,10 +4,12 @@ import (
 	"encoding/binary"
 	"encoding/csv"
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
 	"github.com/gnomon-forensics/gnomon/internal/exifwrite/fixtures"
@@ -134,6 +136,78 @@ func TestAuditRepeatedHour(t *testing.T) {
 	for _, s := range []string{"Two readings", "Reading used", "came twice", "2025-11-02T06:30:00Z"} {
 		if !strings.Contains(string(h), s) {
 			t.Errorf("report.html lacks %q", s)
+		}
+	}
+}
+
+// TestAuditRepeatedHourByCamera: a camera whose clock stayed on daylight
+// time (UTC−4) after New York fell back on 2025-11-02 (15 U.S.C. §260a):
+// four photos on 1 November with GPS clocks that agree with EDT, then one at
+// 01:30 on 2 November with no witness of its own. By its camera's clock that
+// photo was taken near 05:30 UTC, which fits only the EDT reading; it keeps
+// the verdict ambiguous (no witness of its own, like an unverified photo)
+// and says so, with the camera's window.
+func TestAuditRepeatedHourByCamera(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "evidence")
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	const lat, lon = 40.7128, -74.006
+	photos := map[string]exifwrite.Photo{}
+	for i, h := range []uint32{10, 12, 14, 16} { // EDT hours on 1 November; UTC = EDT + 4 h
+		photos[fmt.Sprintf("IMG_%04d.jpg", i+1)] = exifwrite.Photo{Make: "Acme", Model: "D",
+			DateTimeOriginal: fmt.Sprintf("2025:11:01 %02d:00:00", h),
+			GPS: &exifwrite.GPS{LatDeg: lat, LonDeg: lon, DateStamp: "2025:11:01",
+				TimeStamp: [3]exifwrite.Rational{{Num: h + 4, Den: 1}, {Num: 0, Den: 1}, {Num: 3, Den: 1}}}}
+	}
+	photos["IMG_0005.jpg"] = exifwrite.Photo{Make: "Acme", Model: "D", DateTimeOriginal: "2025:11:02 01:30:00",
+		GPS: &exifwrite.GPS{LatDeg: lat, LonDeg: lon}}
+	for name, ph := range photos {
+		payload, err := ph.Payload(binary.BigEndian).Bytes()
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, err := exifwrite.JPEG(payload, fixtures.BaseJPEG, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(dir, name), b, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	out := filepath.Join(t.TempDir(), "report")
+	if code, _, stderr := captureRun("audit", dir, "--out", out, "--quiet", "--formats", "json"); code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	b, err := os.ReadFile(filepath.Join(out, "report.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Photos []struct {
+			Path, Verdict, Explanation string
+			Earliest                   string `json:"corrected_utc_earliest"`
+			Latest                     string `json:"corrected_utc_latest"`
+		}
+	}
+	if err := json.Unmarshal(b, &doc); err != nil {
+		t.Fatal(err)
+	}
+	for _, p := range doc.Photos {
+		if p.Path != "IMG_0005.jpg" {
+			if p.Verdict != "consistent" {
+				t.Errorf("%s: %s (%s), want consistent", p.Path, p.Verdict, p.Explanation)
+			}
+			continue
+		}
+		if p.Verdict != "ambiguous" || !strings.Contains(p.Explanation, "fits only the reading UTC−04:00 (EDT), 2025-11-02 05:30:00 UTC") {
+			t.Errorf("%s: %s: %s", p.Path, p.Verdict, p.Explanation)
+		}
+		e, _ := time.Parse(time.RFC3339, p.Earliest)
+		l, _ := time.Parse(time.RFC3339, p.Latest)
+		edt := time.Date(2025, 11, 2, 5, 30, 0, 0, time.UTC)
+		if e.After(edt) || l.Before(edt) || !l.Before(edt.Add(time.Hour)) {
+			t.Errorf("%s: camera window %s to %s, want one holding 05:30 UTC and not 06:30 UTC", p.Path, p.Earliest, p.Latest)
 		}
 	}
 }
