@@ -25,11 +25,12 @@ var csvHeader = []string{
 	"zone", "claimed_utc", "lat", "lon", "sun_azimuth", "sun_altitude", "verdict",
 	"offset_s", "offset_low_s", "offset_high_s", "corrected_utc_earliest", "corrected_utc_latest",
 	"checks", "explanation", "error", "file_notes", "season_bands", "readings", "claim_notes",
+	"camera_drift_s_per_day", "camera_drift_low_s_per_day", "camera_drift_high_s_per_day",
 }
 
 // WriteCSV writes one row per photo (sorted by path, then root) under
 // CSVColumns. Numeric columns (size, lat, lon, sun_azimuth, sun_altitude,
-// offset_s, offset_low_s, offset_high_s) are formatted by us from numbers and
+// offset_s, offset_low_s, offset_high_s, camera_drift_*) are formatted by us from numbers and
 // are written as they are, so a negative offset stays a number; an unknown
 // number is an empty cell. Every other cell is text and goes through
 // NeutraliseCell. Bytes are otherwise kept: a file name that is not valid
@@ -93,6 +94,7 @@ func (s *csvSink) Photo(p *Photo) error {
 		NeutraliseCell(p.Explanation), NeutraliseCell(p.Error), NeutraliseCell(strings.Join(p.FileNotes, "; ")),
 		NeutraliseCell(seasonBandsCell(p.SeasonBands)),
 		NeutraliseCell(readingsCell(p.Readings)), NeutraliseCell(strings.Join(p.ClaimNotes, "; ")),
+		csvFloat(p.CameraDriftSPerDay), csvFloat(p.CameraDriftLowSPerDay), csvFloat(p.CameraDriftHighSPerDay),
 	)
 	if err := s.cw.Write(s.row); err != nil {
 		return s.fail(fmt.Errorf("row for %q: %w", p.Path, err))

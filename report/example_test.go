@@ -123,7 +123,7 @@ func ExampleVisible() {
 func ExampleCSVColumns() {
 	cols := report.CSVColumns()
 	fmt.Println(len(cols), cols[0], cols[len(cols)-1])
-	// Output: 27 path claim_notes
+	// Output: 30 path camera_drift_high_s_per_day
 }
 
 // A caller that produces photos one at a time, in report order, streams them

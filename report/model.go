@@ -118,6 +118,13 @@ type Photo struct {
 	// reset to its factory default (e.g. 2000-01-01 00:04).
 	FactoryDate bool `json:"factory_default_date,omitempty"`
 
+	// CameraDriftSPerDay and its 95 % interval are the drift of the
+	// photo's camera clock in the segment the photo belongs to (as in
+	// cameras[].segments[]); nil when the camera's drift is not determined.
+	CameraDriftSPerDay     *float64 `json:"camera_drift_s_per_day"`
+	CameraDriftLowSPerDay  *float64 `json:"camera_drift_low_s_per_day"`
+	CameraDriftHighSPerDay *float64 `json:"camera_drift_high_s_per_day"`
+
 	// ShadowFix is the place the shadows give at the GPS time, if any.
 	ShadowFix *Fix `json:"shadow_fix"`
 	// Measured are the sun directions the examiner's sheet gave for this photo.

@@ -119,6 +119,19 @@ type CameraPhoto struct {
 	k   int32
 }
 
+// Segment returns the clock segment the photo belongs to in its camera's
+// model; false when the camera is not fitted or the photo lies in none.
+func (p CameraPhoto) Segment() (clock.Segment, bool) {
+	if p.cam == nil || !p.cam.Fitted {
+		return clock.Segment{}, false
+	}
+	k := p.cam.Model.Photos[p.k].Segment
+	if k < 0 {
+		return clock.Segment{}, false
+	}
+	return p.cam.Model.Segments[k], true
+}
+
 // FitCameras fits every camera's clock from the time evidence of its photos
 // (see Examiner.ClockInput), in the clock's own time scale: a camera
 // carried to another zone without changing its clock keeps one model. It

@@ -35,9 +35,10 @@ type tripShot struct {
 	name    string
 	place   [2]float64
 	trueUTC time.Time
-	wall    time.Time // digits the camera wrote
-	gps     bool      // GPS position and UTC time stamp
-	sun     bool      // a sighting row in the sheet (sun azimuth and altitude at trueUTC)
+	wall    time.Time     // digits the camera wrote
+	gps     bool          // GPS position and UTC time stamp
+	gpsLag  time.Duration // the fix is this much before the exposure (receivers stamp their last fix)
+	sun     bool          // a sighting row in the sheet (sun azimuth and altitude at trueUTC)
 }
 
 // writeTrip writes the shots as JPEGs with our EXIF writer into a folder
@@ -52,7 +53,7 @@ func writeTrip(t *testing.T, camera string, shots []tripShot) (dir string, sh *s
 	for _, s := range shots {
 		ph := exifwrite.Photo{Make: "Tripcam", Model: camera, BodySerial: "T-1", DateTimeOriginal: s.wall.Format("2006:01:02 15:04:05")}
 		if s.gps {
-			u := s.trueUTC.UTC()
+			u := s.trueUTC.UTC().Add(-s.gpsLag)
 			ph.GPS = &exifwrite.GPS{LatDeg: s.place[0], LonDeg: s.place[1], DateStamp: u.Format("2006:01:02"),
 				TimeStamp: [3]exifwrite.Rational{{Num: uint32(u.Hour()), Den: 1}, {Num: uint32(u.Minute()), Den: 1}, {Num: uint32(u.Second()), Den: 1}}}
 		}
@@ -127,7 +128,8 @@ func leg(prefix string, first int, n int, place [2]float64, day0 time.Time, cloc
 	var out []tripShot
 	for i := 0; i < n; i++ {
 		u := day0.AddDate(0, 0, i).Add(time.Duration(i*7) * time.Minute)
-		out = append(out, tripShot{name: fmt.Sprintf("%s_%04d.JPG", prefix, first+i), place: place, trueUTC: u, wall: u.Add(clockOffset), gps: true})
+		out = append(out, tripShot{name: fmt.Sprintf("%s_%04d.JPG", prefix, first+i), place: place, trueUTC: u, wall: u.Add(clockOffset), gps: true,
+			gpsLag: time.Duration((first+i)*3%5) * time.Second})
 	}
 	return out
 }
@@ -170,6 +172,12 @@ func TestTravelWithoutClockChange(t *testing.T) {
 			if st := checkStatus(p, "camera_clock"); st != "agrees" {
 				t.Errorf("%s: %s: camera_clock %q, want agrees", c.source, s.name, st)
 			}
+			// Each photo row carries its camera's drift and interval (8 or
+			// more GPS photos over a week: Sen's interval exists).
+			if p.CameraDriftSPerDay == nil || p.CameraDriftLowSPerDay == nil || p.CameraDriftHighSPerDay == nil ||
+				*p.CameraDriftLowSPerDay > *p.CameraDriftSPerDay || *p.CameraDriftSPerDay > *p.CameraDriftHighSPerDay {
+				t.Errorf("%s: %s: camera drift %v (%v to %v)", c.source, s.name, p.CameraDriftSPerDay, p.CameraDriftLowSPerDay, p.CameraDriftHighSPerDay)
+			}
 		}
 		if len(cam.Segments) != 1 || len(cam.Resets) != 0 || len(cam.Outliers) != 0 {
 			t.Errorf("%s: segments %d resets %v outliers %v, want one clock", c.source, len(cam.Segments), cam.Resets, cam.Outliers)
@@ -191,8 +199,8 @@ func TestTravelResetToNewZone(t *testing.T) {
 	dir, sh := writeTrip(t, "Reset", shots)
 	photos, cam := auditTrip(t, dir, sh)
 	for _, s := range shots {
-		if p := photos[s.name]; p.Verdict != "consistent" {
-			t.Errorf("%s: %s (%s), want consistent", s.name, p.Verdict, p.Explanation)
+		if p := photos[s.name]; p.Verdict != "consistent" || p.CameraDriftSPerDay != nil {
+			t.Errorf("%s: %s (%s), camera drift %v; want consistent and no drift", s.name, p.Verdict, p.Explanation, p.CameraDriftSPerDay)
 		}
 	}
 	if len(cam.Resets) != 1 || !strings.HasSuffix(cam.Resets[0], "DSC_0005.JPG") {

@@ -435,8 +435,11 @@ func fitSegment(points []Point, idx []int, opt Options) Segment {
 	s.T0 = s.First.Add(secDuration(x0 * secPerDay))
 	l, err := TheilSen(x, y)
 	switch {
-	case err != nil || !l.CI:
+	case (err != nil || !l.CI) && distinctReadings(points, idx) < 5:
 		s.DriftReason = fmt.Sprintf("%s: a drift and its 95 %% interval need at least 5 at different times", photoCount(len(idx)))
+	case err != nil || !l.CI:
+		// Sen's variance is zero when every offset ties: no interval.
+		s.DriftReason = fmt.Sprintf("the offsets of the %d photos with a time witness tie, which leaves Sen's interval undefined", len(idx))
 	case (l.High-l.Low)/2 > opt.MaxDriftHalfWidth:
 		s.DriftReason = fmt.Sprintf("its 95 %% interval would be %+.0f to %+.0f s/day, too wide to say anything about a clock (the %d photos with a time witness span %s)",
 			l.Low, l.High, len(idx), spanText(s.Last.Sub(s.First)))
@@ -460,6 +463,15 @@ func fitSegment(points []Point, idx []int, opt Options) Segment {
 	// Standard error of a median of n normal errors: √(π/2)·σ/√n.
 	s.OffsetHalf95Sec = z975 * math.Sqrt(math.Pi/2) * s.SigmaSec / math.Sqrt(float64(len(idx)))
 	return s
+}
+
+// distinctReadings counts the different readings among points idx.
+func distinctReadings(points []Point, idx []int) int {
+	seen := map[time.Time]bool{}
+	for _, i := range idx {
+		seen[points[i].Reading] = true
+	}
+	return len(seen)
 }
 
 func photoCount(n int) string {

@@ -22,6 +22,13 @@ func TestDriftNotDetermined(t *testing.T) {
 		}
 		return out
 	}
+	same := func(n int) []Point {
+		out := pts(n, 24*time.Hour, 0)
+		for i := range out {
+			out[i].OffsetSec = 60
+		}
+		return out
+	}
 	cases := []struct {
 		source   string
 		points   []Point
@@ -33,6 +40,7 @@ func TestDriftNotDetermined(t *testing.T) {
 		{"4 photos: Sen's rank M1 = (6 − 5.77)/2 rounds to 0 (hand check)", pts(4, 24*time.Hour, 1), false, "at least 5"},
 		{"6 photos in 50 minutes: interval hundreds of s/day wide (hand check: 4 s / 0.03 day)", pts(6, 10*time.Minute, 0), false, "too wide"},
 		{"8 photos over a week at 1 s/day: drift stated (simulation)", pts(8, 24*time.Hour, 1), true, ""},
+		{"6 photos over 5 days, every offset the same: Sen's Var(S) is 0 once the y ties are taken out (Sen 1968 eq. 2.6)", same(6), false, "tie"},
 	}
 	for _, c := range cases {
 		m, err := Fit(c.points, Options{})
