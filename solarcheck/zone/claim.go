@@ -3,6 +3,7 @@ package zone
 import (
 	"fmt"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -225,7 +226,13 @@ func (f *Finder) claimOverride(in ClaimInput, o Override, out *Claimed) error {
 // add merges one zone's resolution into the claim.
 func (c *Claimed) add(res Resolution) {
 	c.Zones = append(c.Zones, res.Zone)
-	c.Candidates = append(c.Candidates, res.Candidates...)
+	for _, n := range res.Candidates {
+		// Zones that overlap at a place but keep the same offset give the
+		// same instant: one reading, not two to choose between.
+		if !slices.ContainsFunc(c.Candidates, func(o Candidate) bool { return o.UTC.Equal(n.UTC) && o.OffsetSec == n.OffsetSec }) {
+			c.Candidates = append(c.Candidates, n)
+		}
+	}
 	for i := 1; i < len(c.Candidates); i++ { // insertion sort keeps it stable and sorted by UTC
 		for j := i; j > 0 && c.Candidates[j].UTC.Before(c.Candidates[j-1].UTC); j-- {
 			c.Candidates[j], c.Candidates[j-1] = c.Candidates[j-1], c.Candidates[j]

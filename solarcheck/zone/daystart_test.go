@@ -80,3 +80,24 @@ func TestDescribe(t *testing.T) {
 		}
 	}
 }
+
+// TestClaimSameInstantOnce: zones that overlap at a place but keep the same
+// offset (Europe/Rome and Europe/Vatican, both CEST in June: tz database,
+// europe) give one reading, not two to choose between; zones with different
+// offsets keep one each.
+func TestClaimSameInstantOnce(t *testing.T) {
+	db := NewDB()
+	w := wall(2025, 6, 1, 12, 0)
+	var c Claimed
+	for _, name := range []string{"Europe/Rome", "Europe/Vatican", "Europe/London"} {
+		res, err := Resolve(w, mustLoad(t, db, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		c.add(res)
+	}
+	want := []time.Time{utc(2025, 6, 1, 10, 0), utc(2025, 6, 1, 11, 0)} // 12:00 CEST, 12:00 BST
+	if len(c.Candidates) != len(want) || !c.Candidates[0].UTC.Equal(want[0]) || !c.Candidates[1].UTC.Equal(want[1]) || len(c.Zones) != 3 {
+		t.Errorf("candidates %v, zones %v; want %v and all three zones named", c.Candidates, c.Zones, want)
+	}
+}
