@@ -46,12 +46,7 @@ func ReadFile(path string, opt Options) (rec Record) {
 	opt = opt.withDefaults()
 	read(&rec, f, st.Size(), opt)
 	if !opt.SkipHash {
-		h := sha256.New()
-		if _, err := io.Copy(h, io.NewSectionReader(f, 0, st.Size())); err != nil {
-			rec.addProblem(fmt.Errorf("sha256: %w", err))
-		} else {
-			rec.SHA256 = hex.EncodeToString(h.Sum(nil))
-		}
+		rec.hash(f, st.Size())
 	}
 	rec.ExtensionMismatch = extensionMismatch(path, rec.Container)
 	if !opt.SkipSidecar {
@@ -69,16 +64,28 @@ func Read(r io.ReaderAt, size int64, opt Options) Record {
 	opt = opt.withDefaults()
 	read(&rec, r, size, opt)
 	if !opt.SkipHash {
-		h := sha256.New()
-		if _, err := io.Copy(h, io.NewSectionReader(r, 0, size)); err != nil {
-			rec.addProblem(fmt.Errorf("sha256: %w", err))
-		} else {
-			rec.SHA256 = hex.EncodeToString(h.Sum(nil))
-		}
+		rec.hash(r, size)
 	}
 	crossCheckGPSDate(&rec)
 	rec.finish()
 	return rec
+}
+
+// hashReadMax is the largest read the SHA-256 pass makes. io.Copy reads 32 KB at
+// a time; on photos of several MB those reads were 16 % of an audit's profile
+// (issue 12), and 1 MB reads cut the system calls 32-fold. A smaller file gets a
+// buffer of its own size, so that a folder of small files allocates little.
+const hashReadMax = 1 << 20
+
+// hash sets SHA256 to the hash of the size bytes of r, or records the failure.
+func (rec *Record) hash(r io.ReaderAt, size int64) {
+	h := sha256.New()
+	buf := make([]byte, max(1, min(size, hashReadMax)))
+	if _, err := io.CopyBuffer(h, io.NewSectionReader(r, 0, size), buf); err != nil {
+		rec.addProblem(fmt.Errorf("sha256: %w", err))
+		return
+	}
+	rec.SHA256 = hex.EncodeToString(h.Sum(nil))
 }
 
 // setErr records err as the record's error when none is set yet.
