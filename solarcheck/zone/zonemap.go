@@ -23,9 +23,6 @@ import (
 // inside its box. The agreement is checked point by point in zonemap_test.go
 // against a table made with tzf's exact finder.
 
-// polyIndex is the index tzf builds for every polygon (tzf.NewFinderFromPB).
-var polyIndex = &geometry.IndexOptions{Kind: geometry.RTree, MinPoints: 64}
-
 // zoneMap is the decoded boundary data.
 type zoneMap struct {
 	version string
@@ -62,7 +59,8 @@ func (p *lazyPoly) contains(pt geometry.Point) bool {
 			holes[i] = decodeRing(h)
 		}
 		ext := decodeRing(p.ext)
-		p.poly = geometry.NewPoly(ext, holes, polyIndex)
+		// The index tzf builds for every polygon (tzf.NewFinderFromPB).
+		p.poly = geometry.NewPoly(ext, holes, &geometry.IndexOptions{Kind: geometry.RTree, MinPoints: 64})
 		p.ext, p.holes = nil, nil
 	})
 	return p.poly.ContainsPoint(pt)
