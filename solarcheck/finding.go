@@ -209,10 +209,10 @@ type Finding struct {
 	// clock model rather than the photo's own witnesses.
 	FromCamera bool
 
-	// Basis is what the diagnosis weighed. It is part of the finding (not
-	// hidden) so that a finding written to disk and read back, as the audit
-	// does on a large batch between examining and modelling the cameras, is
-	// judged exactly as one kept in memory.
+	// Basis is what the diagnosis weighed, for Examine's own use: nothing
+	// after Examine reads it (the camera model works from ClockInput and
+	// the finding's verdict and offset), and the audit's spool does not keep
+	// it.
 	Basis Basis
 }
 

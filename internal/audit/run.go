@@ -6,8 +6,8 @@
 // (cmd/gnomon) decides where the reports go.
 //
 // Memory stays flat in the batch size: between examining the photos and
-// writing the reports, the findings wait in a spool file (encoding/gob, in
-// the report folder), and only a few numbers per photo stay in memory (the
+// writing the reports, the findings wait in a spool file (records of this
+// package, encoding/gob, in the report folder), and only a few numbers per photo stay in memory (the
 // walk's entry, the camera-model input, the final verdict). A batch of
 // 100,000 files is audited in a few hundred megabytes; see
 // testdata/bench_scale.sh.
@@ -77,8 +77,9 @@ type Result struct {
 	late  map[int]string // report position → thumbnail written after the run
 }
 
-// stored is what the spool keeps of one entry: the file facts the report
-// needs and the finding before its camera's model is applied.
+// stored is one entry between examination and report: the file facts the
+// report needs and the finding before its camera's model is applied. The
+// spool keeps it as a record (spool.go).
 type stored struct {
 	SHA256    string
 	Size      int64
@@ -182,7 +183,7 @@ func (r *Result) each(ctx context.Context, fn func(k int, s *stored) error) erro
 		if err := ctx.Err(); err != nil {
 			return err
 		}
-		var s stored // a fresh value: gob leaves zero fields untouched
+		var s stored
 		if err := rd.next(&s); err != nil {
 			return fmt.Errorf("spool, entry %d of %d: %w", k+1, len(r.order), err)
 		}
