@@ -125,8 +125,10 @@ func fitPhrase(fit Fit) string {
 		chance = "less than 0.1 %"
 	case fit.PValue < 0.095:
 		chance = fmt.Sprintf("%.1f %%", 100*fit.PValue)
+	case fit.PValue > 0.995:
+		chance = "more than 99 %"
 	}
-	return fmt.Sprintf("(misfit χ² %.1f with %d %s of freedom; chance alone gives a misfit this large in %s of honest measurements)", fit.Chi2, fit.Dof, dof, chance)
+	return fmt.Sprintf("(misfit χ² %.1f with %d %s of freedom; chance alone gives a misfit at least this large in %s of honest measurements)", fit.Chi2, fit.Dof, dof, chance)
 }
 
 // seasonCheck runs when no time within ±14 h of the claim fits the shadows

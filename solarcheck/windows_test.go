@@ -135,3 +135,26 @@ func TestFactoryDateExplained(t *testing.T) {
 		t.Errorf("ordinary date called a reset: %s", f.Explanation)
 	}
 }
+
+// TestFitPhrase: the fit is said in plain words, with the chance given no
+// more precisely than it is worth. The p-values are those of χ² 0.004,
+// 3.841 and 10.828 on 1 degree of freedom (0.95, 0.05 and 0.001: NIST/SEMATECH
+// e-Handbook 1.3.6.7.4) and of 1.0 on 2 (e^−0.5 = 0.61, closed form).
+func TestFitPhrase(t *testing.T) {
+	tests := []struct {
+		fit  Fit
+		want string
+	}{
+		{Fit{Chi2: 0.004, Dof: 1, PValue: 0.95}, "(misfit χ² 0.0 with 1 degree of freedom; chance alone gives a misfit at least this large in 95 % of honest measurements)"},
+		{Fit{Chi2: 3.841, Dof: 1, PValue: 0.05}, "(misfit χ² 3.8 with 1 degree of freedom; chance alone gives a misfit at least this large in 5.0 % of honest measurements)"},
+		{Fit{Chi2: 10.828, Dof: 1, PValue: 0.001}, "(misfit χ² 10.8 with 1 degree of freedom; chance alone gives a misfit at least this large in 0.1 % of honest measurements)"},
+		{Fit{Chi2: 40, Dof: 1, PValue: 2.5e-10}, "(misfit χ² 40.0 with 1 degree of freedom; chance alone gives a misfit at least this large in less than 0.1 % of honest measurements)"},
+		{Fit{Chi2: 1, Dof: 2, PValue: 0.6065}, "(misfit χ² 1.0 with 2 degrees of freedom; chance alone gives a misfit at least this large in 61 % of honest measurements)"},
+		{Fit{Chi2: 0, Dof: 1, PValue: 1}, "(misfit χ² 0.0 with 1 degree of freedom; chance alone gives a misfit at least this large in more than 99 % of honest measurements)"},
+	}
+	for _, tc := range tests {
+		if got := fitPhrase(tc.fit); got != tc.want {
+			t.Errorf("fitPhrase(%+v)\n got %s\nwant %s", tc.fit, got, tc.want)
+		}
+	}
+}
