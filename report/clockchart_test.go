@@ -59,3 +59,28 @@ func num(t *testing.T, s string) float64 {
 	}
 	return v
 }
+
+// TestCameraClockText: the chart header states the clock's zone, its error
+// with the 95 % interval and the drift with its interval, rounded by the
+// one rule (GUM §7.2.6: two significant digits of the uncertainty; hand
+// checks), or says the drift is not determined.
+func TestCameraClockText(t *testing.T) {
+	f := func(v float64) *float64 { return &v }
+	cases := []struct {
+		source string
+		c      Camera
+		want   string
+	}{
+		{"drift 4.4 ± 8.5 s/day: tenths", Camera{ClockZone: "UTC-04:00", OffsetS: f(580), OffsetLowS: f(440), OffsetHighS: f(710),
+			DriftSPerDay: f(4.4), DriftLowSPerDay: f(-4.6), DriftHighSPerDay: f(12.1)},
+			"clock on UTC-04:00, off by +9 min 40 s (95 % +7 min 20 s to +11 min 50 s) · drift 4.4 s/day (95 % −4.6 to 12.1)"},
+		{"no drift stated", Camera{OffsetS: f(-25360), OffsetLowS: f(-25620), OffsetHighS: f(-25090)},
+			"zone setting undecided, off UTC by −7 h 02 min 40 s (95 % −7 h 07 min 00 s to −6 h 58 min 10 s) · drift not determined"},
+		{"no model", Camera{}, "no offset modelled · drift not determined"},
+	}
+	for _, c := range cases {
+		if got := cameraClockText(c.c); got != c.want {
+			t.Errorf("%s:\n got %s\nwant %s", c.source, got, c.want)
+		}
+	}
+}

@@ -28,6 +28,7 @@ var pageTemplate = template.Must(template.New("page").Funcs(template.FuncMap{
 	"opt":   fmtOpt,
 	"optd":  fmtOptOffset,
 	"offs":  offsetSpans,
+	"clock": cameraClockText,
 	"claim": claimSourceText,
 	"kind":  checkKindText,
 	"stat":  checkStatusText,
@@ -425,6 +426,43 @@ func offsetSpans(p Photo) *spans {
 	var s spans
 	s.Sec, s.Low, s.High = figure.Spans(*p.OffsetS, *p.OffsetLowS, *p.OffsetHighS)
 	return &s
+}
+
+// cameraClockText is a camera's clock in the words of the chart header: the
+// zone it was set to, its error with the 95 % interval, and its drift with
+// its interval or "drift not determined", every figure rounded by the one
+// rule (package figure).
+func cameraClockText(c Camera) string {
+	var b strings.Builder
+	switch {
+	case c.OffsetS == nil:
+		b.WriteString("no offset modelled")
+	default:
+		if c.ClockZone != "" {
+			b.WriteString("clock on " + c.ClockZone + ", ")
+		} else {
+			b.WriteString("zone setting undecided, ")
+		}
+		off := "off by "
+		if c.ClockZone == "" {
+			off = "off UTC by "
+		}
+		if c.OffsetLowS != nil && c.OffsetHighS != nil {
+			sec, low, high := figure.Spans(*c.OffsetS, *c.OffsetLowS, *c.OffsetHighS)
+			b.WriteString(off + sec + " (95 % " + low + " to " + high + ")")
+		} else {
+			b.WriteString(off + fmtOffset(*c.OffsetS))
+		}
+	}
+	b.WriteString(" · ")
+	if c.DriftSPerDay == nil || c.DriftLowSPerDay == nil || c.DriftHighSPerDay == nil {
+		b.WriteString("drift not determined")
+		return b.String()
+	}
+	d, lo, hi := *c.DriftSPerDay, *c.DriftLowSPerDay, *c.DriftHighSPerDay
+	u := max(hi-d, d-lo)
+	b.WriteString("drift " + figure.Number(d, u, 2) + " s/day (95 % " + figure.Number(lo, u, 2) + " to " + figure.Number(hi, u, 2) + ")")
+	return b.String()
 }
 
 // fmtFigure writes a check's figure rounded to the step its uncertainty

@@ -223,7 +223,7 @@ type Fix struct {
 type Camera struct {
 	ID          string   `json:"id"`
 	Photos      int      `json:"photos"`
-	ClockZone   string   `json:"clock_zone"` // "UTC+01:00", or "its offset tags"; "" when the witnesses do not decide it
+	ClockZone   string   `json:"clock_zone"` // "UTC+01:00", or "the zone of each photo's offset tag"; "" when the witnesses do not decide it
 	OffsetS     *float64 `json:"offset_s"`
 	OffsetLowS  *float64 `json:"offset_low_s"` // 95 % interval of OffsetS
 	OffsetHighS *float64 `json:"offset_high_s"`

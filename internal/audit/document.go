@@ -228,7 +228,7 @@ func camera(c *solarcheck.Camera) report.Camera {
 	for k, s := range c.Model.Segments {
 		cs := clockSegment(s)
 		if c.Tagged {
-			cs.ClockZone = "its offset tags"
+			cs.ClockZone = "the zone of each photo's offset tag"
 		}
 		rc.Segments = append(rc.Segments, cs)
 		if s.Points > c.Model.Segments[main].Points {
