@@ -22,8 +22,11 @@ const deg = math.Pi / 180
 //	per horizon point   relative azimuth
 //	per ground line     From (x, y) on the ground, length L, true bearing
 //
-// Observations: every marked coordinate in pixels, then the priors (focal
-// length, each ground line's bearing, the heading), each with its 1-sigma.
+// The parameters after H belong each to one element (an object, an edge,
+// the horizon, a ground line), which alone they move: the Jacobian uses
+// that. Observations, element by element: the marked coordinates in pixels,
+// a ground line's bearing, the sun's disc, and the priors of the focal
+// length and the heading, each with its 1-sigma.
 type model struct {
 	cam      camera
 	in       Input
@@ -36,9 +39,25 @@ type model struct {
 	iHz          int
 	iLine        []int
 	n            int
+	nGlobal      int
 
-	sd   []float64 // 1-sigma of each observation
-	wrap []bool    // observation is an angle in radians (difference wrapped)
+	elems []element
+	owner []int     // element of each parameter, −1 for the globals
+	sd    []float64 // 1-sigma of each observation
+	wrap  []bool    // observation is an angle in radians (difference wrapped)
+	nObs  int
+}
+
+// element is a group of observations with the parameters of its own.
+type element struct {
+	obs0, nObs int
+	eval       func(g *state, p, out []float64) bool
+}
+
+// state is what every element needs from the global parameters.
+type state struct {
+	fr  frame
+	cam camera
 }
 
 func sdOr(v, def float64) float64 {
@@ -62,60 +81,108 @@ func newModel(in Input, separate bool) *model {
 	if len(in.GroundLines) > 0 || in.Heading != nil {
 		m.iH, n = n, n+1
 	}
-	for j := range in.Objects {
-		m.iObj = append(m.iObj, n)
-		n += 3
-		if separate && j > 0 {
-			n += 2
-		}
+	m.nGlobal = n
+	for range n {
+		m.owner = append(m.owner, -1)
 	}
-	for range in.Edges {
-		m.iEdge = append(m.iEdge, n)
-		n += 3
-	}
-	if in.Horizon != nil {
-		m.iHz, n = n, n+2
-	}
-	for range in.GroundLines {
-		m.iLine = append(m.iLine, n)
-		n += 4
-	}
-	m.n = n
-
-	add := func(sd float64, k int) {
+	// add registers an element with k own parameters and its observations'
+	// 1-sigmas, and returns the index of its first parameter.
+	add := func(k int, sds []float64, wrap []bool, eval func(g *state, p, out []float64) bool) int {
+		first := n
 		for range k {
-			m.sd = append(m.sd, sd)
-			m.wrap = append(m.wrap, false)
+			m.owner = append(m.owner, len(m.elems))
 		}
+		n += k
+		m.elems = append(m.elems, element{obs0: len(m.sd), nObs: len(sds), eval: eval})
+		m.sd = append(m.sd, sds...)
+		if wrap == nil {
+			wrap = make([]bool, len(sds))
+		}
+		m.wrap = append(m.wrap, wrap...)
+		return first
 	}
-	for _, o := range in.Objects {
-		add(sdOr(o.SDPx, DefaultMarkSDPx), 6)
+	rep := func(v float64, k int) []float64 {
+		s := make([]float64, k)
+		for i := range s {
+			s[i] = v
+		}
+		return s
 	}
-	for _, e := range in.Edges {
-		add(sdOr(e.SDPx, DefaultMarkSDPx), 4)
+	for j, o := range in.Objects {
+		k := 3
+		if separate && j > 0 {
+			k = 5
+		}
+		m.iObj = append(m.iObj, add(k, rep(sdOr(o.SDPx, DefaultMarkSDPx), 6), nil, func(g *state, p, out []float64) bool {
+			i := m.iObj[j]
+			b := ground(g.fr, p[i], p[i+1])
+			h := p[i+2]
+			alt, phi := m.sunOf(p, j)
+			// The tip is where the ray from the top away from the sun
+			// meets the ground: h/tan(alt) from the base, opposite the sun.
+			s := b.sub(g.fr.dir(phi, 0).scale(h / math.Tan(alt)))
+			return put(g.cam, out, b, b.add(g.fr.u.scale(h)), s)
+		}))
+	}
+	for e, ed := range in.Edges {
+		m.iEdge = append(m.iEdge, add(3, rep(sdOr(ed.SDPx, DefaultMarkSDPx), 4), nil, func(g *state, p, out []float64) bool {
+			i := m.iEdge[e]
+			return put(g.cam, out, g.fr.dir(p[i], p[i+1]), g.fr.dir(p[i], p[i+2]))
+		}))
 	}
 	if h := in.Horizon; h != nil {
-		add(sdOr(h.SDPx, DefaultMarkSDPx), 4)
+		m.iHz = add(2, rep(sdOr(h.SDPx, DefaultMarkSDPx), 4), nil, func(g *state, p, out []float64) bool {
+			return put(g.cam, out, g.fr.dir(p[m.iHz], -m.dipRad), g.fr.dir(p[m.iHz+1], -m.dipRad))
+		})
 	}
-	for _, g := range in.GroundLines {
-		add(sdOr(g.SDPx, DefaultMarkSDPx), 4)
+	for l, gl := range in.GroundLines {
+		sds := append(rep(sdOr(gl.SDPx, DefaultMarkSDPx), 4), sdOr(gl.BearingSDDeg, DefaultBearingSDDeg)*deg)
+		m.iLine = append(m.iLine, add(4, sds, []bool{false, false, false, false, true}, func(g *state, p, out []float64) bool {
+			i := m.iLine[l]
+			from := ground(g.fr, p[i], p[i+1])
+			psi := p[i+3] - p[m.iH]
+			out[4] = p[i+3]
+			return put(g.cam, out, from, from.add(g.fr.dir(psi, 0).scale(p[i+2])))
+		}))
 	}
 	if s := in.Sun; s != nil {
-		add(sdOr(s.SDPx, DefaultMarkSDPx), 2)
+		add(0, rep(sdOr(s.SDPx, DefaultMarkSDPx), 2), nil, func(g *state, p, out []float64) bool {
+			return put(g.cam, out, g.fr.dir(p[m.iSun+1], p[m.iSun]))
+		})
 	}
-	add(sdOr(in.Camera.FocalSDPx, 1e-6*in.Camera.FocalPx), 1)
-	for _, g := range in.GroundLines {
-		add(sdOr(g.BearingSDDeg, DefaultBearingSDDeg)*deg, 1)
-		m.wrap[len(m.wrap)-1] = true
-	}
+	add(0, []float64{sdOr(in.Camera.FocalSDPx, 1e-6*in.Camera.FocalPx)}, nil, func(g *state, p, out []float64) bool {
+		out[0] = p[m.iF]
+		return true
+	})
 	if h := in.Heading; h != nil {
-		add(sdOr(h.SDDeg, DefaultHeadingSDDeg)*deg, 1)
-		m.wrap[len(m.wrap)-1] = true
+		add(0, []float64{sdOr(h.SDDeg, DefaultHeadingSDDeg) * deg}, []bool{true}, func(g *state, p, out []float64) bool {
+			out[0] = p[m.iH]
+			return true
+		})
 	}
+	m.n = n
+	m.nObs = len(m.sd)
 	return m
 }
 
-// observed returns the observation vector of the input.
+func ground(fr frame, x, y float64) vec {
+	return fr.u.scale(-1).add(fr.h1.scale(x)).add(fr.h2.scale(y))
+}
+
+// put projects the points or directions vs into out, two values each, and
+// returns false when one lies behind the camera.
+func put(cam camera, out []float64, vs ...vec) bool {
+	ok := true
+	for k, v := range vs {
+		q, front := cam.project(v)
+		ok = ok && front
+		out[2*k], out[2*k+1] = q.X, q.Y
+	}
+	return ok
+}
+
+// observed returns the observation vector of the input, in the elements'
+// order.
 func (m *model) observed() []float64 {
 	var o []float64
 	pt := func(ps ...Point) {
@@ -134,14 +201,12 @@ func (m *model) observed() []float64 {
 	}
 	for _, g := range m.in.GroundLines {
 		pt(g.From, g.To)
+		o = append(o, g.BearingDeg*deg)
 	}
 	if s := m.in.Sun; s != nil {
 		pt(s.Centre)
 	}
 	o = append(o, m.in.Camera.FocalPx)
-	for _, g := range m.in.GroundLines {
-		o = append(o, g.BearingDeg*deg)
-	}
 	if h := m.in.Heading; h != nil {
 		o = append(o, h.Deg*deg)
 	}
@@ -158,59 +223,34 @@ func (m *model) sunOf(p []float64, j int) (alt, phi float64) {
 	return p[m.iSun], p[m.iSun+1]
 }
 
+func (m *model) state(p []float64) state {
+	return state{fr: newFrame(upFromParams(p[0], p[1])), cam: camera{f: p[m.iF], cx: m.cam.cx, cy: m.cam.cy}}
+}
+
 // predict writes the model's value of every observation into out, and
 // returns false when a marked point would lie behind the camera.
 func (m *model) predict(p []float64, out []float64) bool {
-	fr := newFrame(upFromParams(p[0], p[1]))
-	cam := camera{f: p[m.iF], cx: m.cam.cx, cy: m.cam.cy}
+	g := m.state(p)
 	ok := true
-	k := 0
-	put := func(vs ...vec) {
-		for _, v := range vs {
-			q, front := cam.project(v)
-			ok = ok && front
-			out[k], out[k+1] = q.X, q.Y
-			k += 2
-		}
-	}
-	ground := func(x, y float64) vec { return fr.u.scale(-1).add(fr.h1.scale(x)).add(fr.h2.scale(y)) }
-	for j := range m.in.Objects {
-		i := m.iObj[j]
-		b := ground(p[i], p[i+1])
-		h := p[i+2]
-		alt, phi := m.sunOf(p, j)
-		t := b.add(fr.u.scale(h))
-		// The tip is where the ray from the top away from the sun meets
-		// the ground: h/tan(alt) from the base, opposite the sun.
-		s := b.sub(fr.dir(phi, 0).scale(h / math.Tan(alt)))
-		put(b, t, s)
-	}
-	for e := range m.in.Edges {
-		i := m.iEdge[e]
-		put(fr.dir(p[i], p[i+1]), fr.dir(p[i], p[i+2]))
-	}
-	if m.iHz >= 0 {
-		put(fr.dir(p[m.iHz], -m.dipRad), fr.dir(p[m.iHz+1], -m.dipRad))
-	}
-	for g := range m.in.GroundLines {
-		i := m.iLine[g]
-		from := ground(p[i], p[i+1])
-		psi := p[i+3] - p[m.iH]
-		put(from, from.add(fr.dir(psi, 0).scale(p[i+2])))
-	}
-	if m.in.Sun != nil {
-		put(fr.dir(p[m.iSun+1], p[m.iSun]))
-	}
-	out[k] = p[m.iF]
-	k++
-	for g := range m.in.GroundLines {
-		out[k] = p[m.iLine[g]+3]
-		k++
-	}
-	if m.in.Heading != nil {
-		out[k] = p[m.iH]
+	for _, e := range m.elems {
+		ok = e.eval(&g, p, out[e.obs0:e.obs0+e.nObs]) && ok
 	}
 	return ok
+}
+
+// resid turns predictions into weighted residuals for observations
+// [from, to) and returns their sum of squares.
+func (m *model) resid(obs, pred, r []float64, from, to int) float64 {
+	var c float64
+	for i := from; i < to; i++ {
+		d := pred[i] - obs[i]
+		if m.wrap[i] {
+			d = angle.Wrap180(d/deg) * deg
+		}
+		r[i] = d / m.sd[i]
+		c += r[i] * r[i]
+	}
+	return c
 }
 
 // residuals writes (model − observed)/sd and returns the sum of squares
@@ -219,15 +259,7 @@ func (m *model) residuals(p, obs, pred, r []float64) float64 {
 	if !m.predict(p, pred) {
 		return math.Inf(1)
 	}
-	var c float64
-	for i := range obs {
-		d := pred[i] - obs[i]
-		if m.wrap[i] {
-			d = angle.Wrap180(d/deg) * deg
-		}
-		r[i] = d / m.sd[i]
-		c += r[i] * r[i]
-	}
+	c := m.resid(obs, pred, r, 0, len(obs))
 	if math.IsNaN(c) {
 		return math.Inf(1)
 	}
@@ -235,9 +267,12 @@ func (m *model) residuals(p, obs, pred, r []float64) float64 {
 }
 
 // fit refines p in place by Levenberg–Marquardt (Hartley and Zisserman,
-// appendix 6.2) with a forward-difference Jacobian, and returns the final
-// chi-square. It stops when a step no longer changes the parameters.
-func (m *model) fit(p, obs []float64, maxIter int) float64 {
+// appendix 6.2) with a forward-difference Jacobian (central differences
+// when central is set: slower, but exact to the last digits even where the
+// geometry is poorly conditioned), and returns the final
+// chi-square. It stops when a step lowers the chi-square by less than
+// relTol of itself, or no longer changes the parameters.
+func (m *model) fit(p, obs []float64, maxIter int, relTol float64, central bool) float64 {
 	nObs, n := len(obs), m.n
 	pred := make([]float64, nObs)
 	r := make([]float64, nObs)
@@ -247,27 +282,18 @@ func (m *model) fit(p, obs []float64, maxIter int) float64 {
 	g := make([]float64, n)
 	step := make([]float64, n)
 	trial := make([]float64, n)
+	chol := make([]float64, n*n)
+	rm := make([]float64, nObs)
 	cost := m.residuals(p, obs, pred, r)
 	if math.IsInf(cost, 1) {
 		return cost
 	}
 	lambda := 1e-3
 	for it := 0; it < maxIter; it++ {
+		clear(jac)
+		st := m.state(p)
 		for j := range n {
-			h := 1e-7 * math.Max(1, math.Abs(p[j]))
-			old := p[j]
-			p[j] = old + h
-			c := m.residuals(p, obs, pred, rr)
-			p[j] = old
-			if math.IsInf(c, 1) {
-				h = -h
-				p[j] = old + h
-				m.residuals(p, obs, pred, rr)
-				p[j] = old
-			}
-			for i := range nObs {
-				jac[i*n+j] = (rr[i] - r[i]) / h
-			}
+			m.column(st, p, obs, pred, r, rr, rm, jac, j, central)
 		}
 		for j := range n {
 			g[j] = 0
@@ -289,7 +315,7 @@ func (m *model) fit(p, obs []float64, maxIter int) float64 {
 		}
 		improved := false
 		for lambda < 1e12 {
-			if !solveDamped(a, g, lambda, n, step) {
+			if !solveDamped(a, g, lambda, n, step, chol) {
 				lambda *= 10
 				continue
 			}
@@ -307,7 +333,11 @@ func (m *model) fit(p, obs []float64, maxIter int) float64 {
 			if c <= cost {
 				copy(p, trial)
 				copy(r, rr)
+				done := cost-c <= relTol*cost
 				cost = c
+				if done {
+					return cost
+				}
 				lambda = math.Max(lambda/10, 1e-12)
 				improved = true
 				break
@@ -317,14 +347,56 @@ func (m *model) fit(p, obs []float64, maxIter int) float64 {
 		if !improved {
 			break
 		}
+		m.predict(p, pred)
 	}
 	return cost
 }
 
+// column fills column j of the Jacobian of the residuals at p, whose
+// predictions and residuals are pred and r; rr and rm are scratch.
+func (m *model) column(st state, p, obs, pred, r, rr, rm, jac []float64, j int, central bool) {
+	n, nObs := m.n, len(obs)
+	h := 1e-7 * math.Max(1, math.Abs(p[j]))
+	if central {
+		h = 1e-5 * math.Max(1, math.Abs(p[j]))
+	}
+	old := p[j]
+	from, to := 0, nObs
+	eval := func(v float64, out []float64) bool {
+		p[j] = v
+		defer func() { p[j] = old }()
+		if e := m.owner[j]; e >= 0 {
+			// A parameter of one element moves only its observations.
+			el := m.elems[e]
+			from, to = el.obs0, el.obs0+el.nObs
+			if !el.eval(&st, p, out[from:to]) {
+				return false
+			}
+			m.resid(obs, out, out, from, to)
+			return true
+		}
+		return !math.IsInf(m.residuals(p, obs, out, out), 1)
+	}
+	switch {
+	case central && eval(old+h, rr) && eval(old-h, rm):
+		for i := from; i < to; i++ {
+			jac[i*n+j] = (rr[i] - rm[i]) / (2 * h)
+		}
+	case eval(old+h, rr):
+		for i := from; i < to; i++ {
+			jac[i*n+j] = (rr[i] - r[i]) / h
+		}
+	default:
+		eval(old-h, rr)
+		for i := from; i < to; i++ {
+			jac[i*n+j] = (r[i] - rr[i]) / h
+		}
+	}
+}
+
 // solveDamped solves (A + λ·diag(A)) x = g by Cholesky, with A's upper
-// triangle given; false when the matrix is not positive definite.
-func solveDamped(a, g []float64, lambda float64, n int, x []float64) bool {
-	l := make([]float64, n*n)
+// triangle given, using l for the factor; false when the matrix is not positive definite.
+func solveDamped(a, g []float64, lambda float64, n int, x, l []float64) bool {
 	for i := range n {
 		for j := 0; j <= i; j++ {
 			s := a[j*n+i]

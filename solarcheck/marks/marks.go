@@ -182,12 +182,14 @@ type RefusalKind string
 
 // The refusal kinds (codes for JSON; the Refusal's Sentence is for people).
 const (
-	RefuseSameBearing     RefusalKind = "objects_same_bearing"
-	RefuseUpUncertain     RefusalKind = "vertical_too_uncertain"
-	RefuseAboveHorizon    RefusalKind = "ground_point_above_horizon"
-	RefuseShadowTowardSun RefusalKind = "shadow_toward_sun"
-	RefuseSunBelowHorizon RefusalKind = "sun_below_horizon"
-	RefuseNoFit           RefusalKind = "no_fit"
+	RefuseSameBearing       RefusalKind = "objects_same_bearing"
+	RefuseAltitudeUncertain RefusalKind = "altitude_too_uncertain"
+	RefuseUpUncertain       RefusalKind = "vertical_too_uncertain"
+	RefuseAboveHorizon      RefusalKind = "ground_point_above_horizon"
+	RefuseNearHorizon       RefusalKind = "ground_point_near_horizon"
+	RefuseShadowTowardSun   RefusalKind = "shadow_toward_sun"
+	RefuseSunBelowHorizon   RefusalKind = "sun_below_horizon"
+	RefuseNoFit             RefusalKind = "no_fit"
 )
 
 // Refusal says why the marks cannot support an answer.

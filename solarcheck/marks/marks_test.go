@@ -31,7 +31,7 @@ func TestNoiseFreeRecovery(t *testing.T) {
 	header, scenes := loadScenes(t)
 	t.Log(header)
 	const tol = 1e-9
-	var n, worst int
+	var n, worst, degenerate int
 	var worstErr float64
 	for _, s := range scenes {
 		for _, c := range s.combos() {
@@ -51,6 +51,12 @@ func TestNoiseFreeRecovery(t *testing.T) {
 			m, p, _, ref := fitOnce(in)
 			if ref != nil {
 				t.Errorf("scene %d %v: refused before the fit: %s", s.id, c, ref.Sentence)
+				continue
+			}
+			if _, same := sameBearing(in, camera{f: p[m.iF], cx: m.cam.cx, cy: m.cam.cy}, newFrame(upFromParams(p[0], p[1]))); same {
+				// Degenerate: the gate refuses it; float rounding of the
+				// table is amplified without bound there.
+				degenerate++
 				continue
 			}
 			pitch, roll := attitude(upFromParams(p[0], p[1]))
@@ -73,5 +79,5 @@ func TestNoiseFreeRecovery(t *testing.T) {
 			}
 		}
 	}
-	t.Logf("%d scenes, %d determined combinations: largest error %.2g° (scene %d)", len(scenes), n, worstErr, worst)
+	t.Logf("%d scenes, %d determined combinations (and %d with all vertical lines at one bearing, which the gate refuses): largest error %.2g° (scene %d)", len(scenes), n, degenerate, worstErr, worst)
 }

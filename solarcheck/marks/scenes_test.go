@@ -15,16 +15,16 @@ import (
 // scene is one row of testdata/scenes_opencv.csv: the truth of a synthetic
 // photo and its marks as OpenCV projected them (see gen_scenes.py).
 type scene struct {
-	id                                  int
-	kind                                string
-	w, h                                int
+	id                                   int
+	kind                                 string
+	w, h                                 int
 	f35, fPx, pitch, roll, heading, camH float64
-	alt, az                             float64
-	obj                                 [3][3]Point // base, top, tip
-	edge, hz, gl                        *[2]Point
-	glBearing                           float64
-	sun                                 *Point
-	rot                                 map[int]Point // object 3's tip, its shadow turned by 10, 20, 40°
+	alt, az                              float64
+	obj                                  [3][3]Point // base, top, tip
+	edge, hz, gl                         *[2]Point
+	glBearing                            float64
+	sun                                  *Point
+	rot                                  map[int]Point // object 3's tip, its shadow turned by 10, 20, 40°
 }
 
 const scenesFile = "testdata/scenes_opencv.csv"

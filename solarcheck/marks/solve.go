@@ -4,14 +4,20 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"sort"
 	"strings"
 
 	"github.com/gnomon-forensics/gnomon/internal/angle"
 )
 
-// Draws is the number of Monte Carlo draws behind every 1-sigma. With 400
-// draws a standard deviation is known to about ±3.5 % (1/√(2·400)).
-const Draws = 400
+// Draws is the number of Monte Carlo draws behind every 1-sigma. With 200
+// draws a standard deviation is known to about ±5 % (1/√(2·200)).
+const Draws = 200
+
+// mcTol ends a Monte Carlo refit when a step lowers its chi-square by
+// less than this fraction: the parameters are then within about a
+// thousandth of their 1-sigma of the minimum.
+const mcTol = 1e-4
 
 // The seed of the Monte Carlo draws: fixed, so that reruns are identical.
 const seed1, seed2 = 0x676e6f6d6f6e, 13
@@ -22,11 +28,21 @@ const (
 	// cannot support an answer. Measured on the reference scenes: the
 	// accepted cases then keep altitude and azimuth errors within a few
 	// degrees (see marks_test.go).
-	MaxVerticalSDDeg = 2.0
+	MaxVerticalSDDeg = 1.0
 	// SameBearingDeg: vertical lines whose bearings from the camera all
 	// lie within this of one another nearly coincide in the picture and
 	// do not fix the vertical direction.
 	SameBearingDeg = 3.0
+	// MinDepressionSigmas: a point on the ground must lie below the
+	// horizon by at least this many times the 1-sigma of its depression,
+	// so that its distance is known to about ±25 % or better and the
+	// Monte Carlo's linear spread describes it.
+	MinDepressionSigmas = 4
+	// MaxAltitudeSDDeg: an altitude less certain than this (1-sigma) is
+	// not given: the marks then sit where the geometry is so bent that
+	// the Monte Carlo's spread no longer describes the error (measured on
+	// the reference scenes).
+	MaxAltitudeSDDeg = 3.0
 )
 
 // verticalLines counts the marks that give a vertical line.
@@ -129,12 +145,14 @@ func aloneObject(cam camera, fr frame, o Object) objectAlone {
 	return a
 }
 
-// start is the closed-form starting point of the fit; refusal is set when
-// the marks cannot be placed on the ground at all.
-func (m *model) start() ([]float64, *Refusal) {
-	in := m.in
-	p := make([]float64, m.n)
-	cam := m.cam
+// startUps are the up directions the fit starts from: the vertical
+// vanishing point (least squares over the vertical lines), the normal of
+// the horizon's plane, and each turned about the camera's x axis (in pitch)
+// by up to ±20°, because lines that nearly agree in the picture place
+// the vanishing point poorly and a fit started far from the truth can stop
+// in a false minimum.
+func (m *model) startUps() []vec {
+	in, cam := m.in, m.cam
 	var pairs [][2]vec
 	for _, o := range in.Objects {
 		pairs = append(pairs, [2]vec{cam.ray(o.Base), cam.ray(o.Top)})
@@ -142,15 +160,32 @@ func (m *model) start() ([]float64, *Refusal) {
 	for _, e := range in.Edges {
 		pairs = append(pairs, [2]vec{cam.ray(e.A), cam.ray(e.B)})
 	}
-	var u vec
+	var bases []vec
 	if len(pairs) >= 2 {
-		u = vanishingPoint(pairs)
-	} else {
-		u = cam.ray(in.Horizon.A).cross(cam.ray(in.Horizon.B)).unit()
+		bases = append(bases, vanishingPoint(pairs))
 	}
-	if u[1] > 0 {
-		u = u.scale(-1)
+	if in.Horizon != nil {
+		bases = append(bases, cam.ray(in.Horizon.A).cross(cam.ray(in.Horizon.B)).unit())
 	}
+	var ups []vec
+	for _, u := range bases {
+		if u[1] > 0 {
+			u = u.scale(-1)
+		}
+		for _, d := range []float64{0, -2, 2, -4, 4, -7, 7, -11, 11, -15, 15, -20, 20} {
+			c, s := math.Cos(d*deg), math.Sin(d*deg)
+			ups = append(ups, vec{u[0], c*u[1] - s*u[2], s*u[1] + c*u[2]})
+		}
+	}
+	return ups
+}
+
+// start is the closed-form starting point of the fit from the up direction
+// u; refusal is set when the marks cannot be placed on the ground at all.
+func (m *model) start(u vec) ([]float64, *Refusal) {
+	in := m.in
+	p := make([]float64, m.n)
+	cam := m.cam
 	p[0], p[1] = upToParams(u)
 	fr := newFrame(upFromParams(p[0], p[1]))
 	p[m.iF] = cam.f
@@ -215,19 +250,23 @@ func objectName(o Object, j int) string {
 // normalise puts a fitted sun above the horizon: without the sun's disc a
 // shadow cannot tell the sun from the point opposite it (alt, φ and −alt,
 // φ+180° cast the same tip), and a shadow needs the sun above the horizon.
+// The fit may also carry an elevation past ±90°; the direction is
+// re-expressed with the elevation in [−90°, 90°] first.
 func (m *model) normalise(p []float64) {
-	flip := func(i int) {
-		if p[i] < 0 {
+	fr := newFrame(upFromParams(p[0], p[1]))
+	flip := func(i int, either bool) {
+		p[i+1], p[i] = fr.azEl(fr.dir(p[i+1], p[i]))
+		if either && p[i] < 0 {
 			p[i], p[i+1] = -p[i], p[i+1]+math.Pi
 		}
 		p[i+1] = angle.Wrap180(p[i+1]/deg) * deg
 	}
-	if m.iSun >= 0 && m.in.Sun == nil {
-		flip(m.iSun)
+	if m.iSun >= 0 {
+		flip(m.iSun, m.in.Sun == nil)
 	}
 	if m.separate {
 		for j := 1; j < len(m.iObj); j++ {
-			flip(m.iObj[j] + 3)
+			flip(m.iObj[j]+3, true)
 		}
 	}
 }
@@ -261,11 +300,41 @@ func attitude(u vec) (pitchDeg, rollDeg float64) {
 // fitOnce fits the model from its closed-form start.
 func fitOnce(in Input) (m *model, p []float64, chi2 float64, ref *Refusal) {
 	m = newModel(in, false)
-	p, ref = m.start()
-	if ref != nil {
+	obs := m.observed()
+	// A fit whose chi-square is plausible for its degrees of freedom (below
+	// dof + 4·√(2·dof) + 4) needs no other start.
+	dof := float64(len(obs) - m.n)
+	good := dof + 4*math.Sqrt(2*math.Max(dof, 0)) + 4
+	type cand struct {
+		p []float64
+		c float64
+	}
+	var cands []cand
+	for k, u := range m.startUps() {
+		q, r := m.start(u)
+		if r != nil {
+			ref = r
+			continue
+		}
+		if k == 0 {
+			if c := m.fit(q, obs, 200, 1e-15, true); c <= good {
+				m.normalise(q)
+				return m, q, c, nil
+			}
+		}
+		// A short fit from each start; the best few are then finished.
+		cands = append(cands, cand{q, m.fit(q, obs, 8, 1e-6, false)})
+	}
+	sort.Slice(cands, func(i, j int) bool { return cands[i].c < cands[j].c })
+	chi2 = math.Inf(1)
+	for _, c := range cands[:min(3, len(cands))] {
+		if v := m.fit(c.p, obs, 200, 1e-15, true); v < chi2 {
+			p, chi2 = c.p, v
+		}
+	}
+	if p == nil {
 		return nil, nil, 0, ref
 	}
-	chi2 = m.fit(p, m.observed(), 200)
 	if math.IsInf(chi2, 1) {
 		return nil, nil, 0, &Refusal{Kind: RefuseNoFit, Sentence: "the marks do not fit any camera looking at level ground"}
 	}
@@ -313,7 +382,7 @@ func run(in Input) (*estimate, *Refusal) {
 			draw[i] = hat[i] + m.sd[i]*rng.NormFloat64()
 		}
 		copy(q, p)
-		if c := m.fit(q, draw, 50); math.IsInf(c, 1) {
+		if c := m.fit(q, draw, 50, mcTol, false); math.IsInf(c, 1) {
 			continue
 		}
 		m.normalise(q)
@@ -373,36 +442,43 @@ func gate(in Input, e *estimate) *Refusal {
 	u := upFromParams(e.p[0], e.p[1])
 	fr := newFrame(u)
 	cam := camera{f: e.fPx, cx: m.cam.cx, cy: m.cam.cy}
-	if in.Horizon == nil && in.verticalLines() >= 2 {
-		lo, hi := math.Inf(1), math.Inf(-1)
-		var ref float64
-		for k, az := range verticalAzimuths(in, cam, fr) {
-			if k == 0 {
-				ref = az
-			}
-			d := angle.Wrap180((az - ref) / deg)
-			lo, hi = math.Min(lo, d), math.Max(hi, d)
-		}
-		if hi-lo < SameBearingDeg {
-			return &Refusal{Kind: RefuseSameBearing, Sentence: fmt.Sprintf("the vertical lines all stand at nearly the same bearing from the camera (within %.1f°), so they nearly coincide in the picture and do not fix the vertical direction: mark a vertical line elsewhere in the picture or the horizon", hi-lo)}
-		}
+	if spread, ok := sameBearing(in, cam, fr); ok {
+		return &Refusal{Kind: RefuseSameBearing, Sentence: fmt.Sprintf("the vertical lines all stand at nearly the same bearing from the camera (within %.1f°), so they nearly coincide in the picture and do not fix the vertical direction: mark a vertical line elsewhere in the picture or the horizon", spread)}
 	}
 	if e.upSD > MaxVerticalSDDeg {
 		return &Refusal{Kind: RefuseUpUncertain, Sentence: fmt.Sprintf("the vertical direction is too uncertain (±%.1f°, 1-sigma; at most ±%.0f° is used): mark more vertical lines far apart in the picture, or the horizon", e.upSD, MaxVerticalSDDeg)}
 	}
-	below := func(pt Point, sdPx float64) bool {
+	// A point on the ground lies below the horizon; its distance is
+	// 1/tan of its depression, so the depression must also clearly exceed
+	// its own uncertainty (the marking and the vertical direction's).
+	below := func(pt Point, sdPx float64) (at, near bool) {
 		_, el := fr.azEl(cam.ray(pt))
-		return el < -sdOr(sdPx, DefaultMarkSDPx)/cam.f
+		sd := math.Hypot(sdOr(sdPx, DefaultMarkSDPx)/cam.f, e.upSD*deg)
+		return el >= 0, -el < MinDepressionSigmas*sd
 	}
+	nearSentence := fmt.Sprintf("so close to the fitted horizon that its distance cannot be measured (its depression below the horizon is less than %g times its uncertainty)", float64(MinDepressionSigmas))
 	for j, o := range in.Objects {
-		if !below(o.Base, o.SDPx) || !below(o.Tip, o.SDPx) {
+		at1, near1 := below(o.Base, o.SDPx)
+		at2, near2 := below(o.Tip, o.SDPx)
+		switch {
+		case at1 || at2:
 			return &Refusal{Kind: RefuseAboveHorizon, Sentence: fmt.Sprintf("the base or shadow tip of %s lies at or above the fitted horizon, so it cannot be on the level ground under the camera", objectName(o, j))}
+		case near1 || near2:
+			return &Refusal{Kind: RefuseNearHorizon, Sentence: fmt.Sprintf("the base or shadow tip of %s lies %s", objectName(o, j), nearSentence)}
 		}
 	}
 	for g, gl := range in.GroundLines {
-		if !below(gl.From, gl.SDPx) || !below(gl.To, gl.SDPx) {
+		at1, near1 := below(gl.From, gl.SDPx)
+		at2, near2 := below(gl.To, gl.SDPx)
+		switch {
+		case at1 || at2:
 			return &Refusal{Kind: RefuseAboveHorizon, Sentence: fmt.Sprintf("a point of ground line %d lies at or above the fitted horizon, so it cannot be on the level ground under the camera", g+1)}
+		case near1 || near2:
+			return &Refusal{Kind: RefuseNearHorizon, Sentence: fmt.Sprintf("a point of ground line %d lies %s", g+1, nearSentence)}
 		}
+	}
+	if m.iSun >= 0 && e.altSD > MaxAltitudeSDDeg {
+		return &Refusal{Kind: RefuseAltitudeUncertain, Sentence: fmt.Sprintf("the marks fix the sun's altitude too loosely (±%.0f°, 1-sigma; at most ±%.0f° is given): mark more objects or the horizon", e.altSD, MaxAltitudeSDDeg)}
 	}
 	if m.iSun >= 0 {
 		if e.p[m.iSun] <= 0 {
@@ -418,18 +494,28 @@ func gate(in Input, e *estimate) *Refusal {
 	return nil
 }
 
-// verticalAzimuths are the relative azimuths of the vertical lines' planes.
-func verticalAzimuths(in Input, cam camera, fr frame) []float64 {
-	var az []float64
+// sameBearing reports whether, with no horizon, all vertical lines stand
+// within SameBearingDeg of one another in bearing from the camera, and
+// their spread in degrees.
+func sameBearing(in Input, cam camera, fr frame) (spreadDeg float64, same bool) {
+	if in.Horizon != nil || in.verticalLines() < 2 {
+		return 0, false
+	}
+	var pts []Point
 	for _, o := range in.Objects {
-		a, _ := fr.azEl(cam.ray(o.Base))
-		az = append(az, a)
+		pts = append(pts, o.Base)
 	}
 	for _, e := range in.Edges {
-		a, _ := fr.azEl(cam.ray(e.A))
-		az = append(az, a)
+		pts = append(pts, e.A)
 	}
-	return az
+	lo, hi := math.Inf(1), math.Inf(-1)
+	ref, _ := fr.azEl(cam.ray(pts[0]))
+	for _, p := range pts {
+		az, _ := fr.azEl(cam.ray(p))
+		d := angle.Wrap180((az - ref) / deg)
+		lo, hi = math.Min(lo, d), math.Max(hi, d)
+	}
+	return hi - lo, hi-lo < SameBearingDeg
 }
 
 // lightCheck compares one sun for all objects with a sun for each.
@@ -451,7 +537,7 @@ func lightCheck(in Input, e *estimate) *LightCheck {
 	}
 	rest := shared.iObj[n-1] + 3
 	copy(p[sep.iObj[n-1]+5:], e.p[rest:])
-	chi2Sep := sep.fit(p, sep.observed(), 200)
+	chi2Sep := sep.fit(p, sep.observed(), 200, 1e-10, false)
 	lc := &LightCheck{Chi2: math.Max(0, e.chi2-chi2Sep), DOF: 2 * (n - 1)}
 	lc.Threshold95 = chi2Quantile(0.95, lc.DOF)
 	lc.PValue = chi2Survival(lc.Chi2, lc.DOF)
@@ -469,12 +555,18 @@ func lightCheck(in Input, e *estimate) *LightCheck {
 // lighting-consistency check when two or more objects are marked, and a
 // refusal when the geometry cannot support an answer.
 func Solve(in Input) (Result, error) {
+	res, _, err := solve(in)
+	return res, err
+}
+
+// solve is Solve that also hands the tests the estimate behind a refusal.
+func solve(in Input) (Result, *estimate, error) {
 	if err := in.check(); err != nil {
-		return Result{}, err
+		return Result{}, nil, err
 	}
 	res := determine(in)
 	if !res.Vertical.Determined {
-		return res, nil
+		return res, nil, nil
 	}
 	e, ref := run(in)
 	if ref == nil {
@@ -488,7 +580,7 @@ func Solve(in Input) (Result, error) {
 				*a = Angle{Reason: ref.Sentence}
 			}
 		}
-		return res, nil
+		return res, e, nil
 	}
 	res.Vertical.PitchDeg, res.Vertical.RollDeg = e.pitchDeg, e.rollDeg
 	res.Vertical.PitchSDDeg, res.Vertical.RollSDDeg, res.Vertical.SDDeg = e.pitchSD, e.rollSD, e.upSD
@@ -502,5 +594,5 @@ func Solve(in Input) (Result, error) {
 		res.Azimuth.Deg, res.Azimuth.SDDeg = e.azDeg, e.azSD
 		res.Correlation = e.corr
 	}
-	return res, nil
+	return res, e, nil
 }

@@ -110,7 +110,7 @@ def scene(kind):
                 b = bearings[0] + rng.choice([-1, 1]) * rng.uniform(0.2, 1.0)
             else:
                 b = heading + rng.uniform(-0.9, 0.9) * hfov
-            dist = rng.uniform(3, 40) * (1 + f35 / 40)
+            dist = rng.uniform(2, 25)
             B = C * [1, 1, 0] + dist * horiz(b)
             ho = rng.uniform(0.5, 5.0)
             T = B + [0, 0, ho]
