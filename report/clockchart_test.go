@@ -1,6 +1,7 @@
 package report
 
 import (
+	"bytes"
 	"strconv"
 	"strings"
 	"testing"
@@ -81,6 +82,28 @@ func TestCameraClockText(t *testing.T) {
 	for _, c := range cases {
 		if got := cameraClockText(c.c); got != c.want {
 			t.Errorf("%s:\n got %s\nwant %s", c.source, got, c.want)
+		}
+	}
+}
+
+// TestClockResetInEveryFormat: the first photo after a clock reset says so
+// in report.json, report.csv and report.geojson (issue 19: "resets names the
+// first photo after each break, in all report formats").
+func TestClockResetInEveryFormat(t *testing.T) {
+	lat, lon := 48.8566, 2.3522
+	note := "The clock fell back to its factory date (2000-01-01) between trip/DSC_0003.JPG and trip/DSC_0004.JPG."
+	a := &Audit{Schema: SchemaID, Photos: []Photo{{Path: "DSC_0004.JPG", Verdict: "season_mismatch", Lat: &lat, Lon: &lon, ClockReset: note}}, Cameras: []Camera{}}
+	for name, write := range map[string]func(*bytes.Buffer) error{
+		"report.json":    func(b *bytes.Buffer) error { return WriteJSON(b, a) },
+		"report.csv":     func(b *bytes.Buffer) error { return WriteCSV(b, a) },
+		"report.geojson": func(b *bytes.Buffer) error { return WriteGeoJSON(b, a) },
+	} {
+		var b bytes.Buffer
+		if err := write(&b); err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		if !strings.Contains(b.String(), "factory date (2000-01-01) between trip/DSC_0003.JPG") {
+			t.Errorf("%s does not carry the reset note:\n%s", name, b.String())
 		}
 	}
 }

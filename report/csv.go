@@ -25,7 +25,7 @@ var csvHeader = []string{
 	"zone", "claimed_utc", "lat", "lon", "sun_azimuth", "sun_altitude", "verdict",
 	"offset_s", "offset_low_s", "offset_high_s", "corrected_utc_earliest", "corrected_utc_latest",
 	"checks", "explanation", "error", "file_notes", "season_bands", "readings", "claim_notes",
-	"camera_drift_s_per_day", "camera_drift_low_s_per_day", "camera_drift_high_s_per_day",
+	"camera_drift_s_per_day", "camera_drift_low_s_per_day", "camera_drift_high_s_per_day", "clock_reset",
 }
 
 // WriteCSV writes one row per photo (sorted by path, then root) under
@@ -95,6 +95,7 @@ func (s *csvSink) Photo(p *Photo) error {
 		NeutraliseCell(seasonBandsCell(p.SeasonBands)),
 		NeutraliseCell(readingsCell(p.Readings)), NeutraliseCell(strings.Join(p.ClaimNotes, "; ")),
 		csvFloat(p.CameraDriftSPerDay), csvFloat(p.CameraDriftLowSPerDay), csvFloat(p.CameraDriftHighSPerDay),
+		NeutraliseCell(p.ClockReset),
 	)
 	if err := s.cw.Write(s.row); err != nil {
 		return s.fail(fmt.Errorf("row for %q: %w", p.Path, err))

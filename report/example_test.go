@@ -123,7 +123,7 @@ func ExampleVisible() {
 func ExampleCSVColumns() {
 	cols := report.CSVColumns()
 	fmt.Println(len(cols), cols[0], cols[len(cols)-1])
-	// Output: 30 path camera_drift_high_s_per_day
+	// Output: 31 path clock_reset
 }
 
 // A caller that produces photos one at a time, in report order, streams them

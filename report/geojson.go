@@ -38,6 +38,7 @@ type geoProperties struct {
 	CorrectedUTCLatest   string   `json:"corrected_utc_latest"`
 	RadiusKm             *float64 `json:"radius_km,omitempty"`
 	SkippedReason        string   `json:"skipped_reason,omitempty"`
+	ClockReset           string   `json:"clock_reset,omitempty"` // as Photo.ClockReset
 }
 
 // WriteGeoJSON writes report.geojson: an RFC 7946 FeatureCollection with, for
@@ -102,7 +103,7 @@ func features(p *Photo, out []geoFeature) []geoFeature {
 	props := geoProperties{
 		Path: p.Path, Root: p.Root, Camera: p.Camera, Verdict: p.Verdict,
 		ClaimedUTC: p.ClaimedUTC, CorrectedUTCEarliest: p.CorrectedUTCEarliest,
-		CorrectedUTCLatest: p.CorrectedUTCLatest,
+		CorrectedUTCLatest: p.CorrectedUTCLatest, ClockReset: p.ClockReset,
 	}
 	switch {
 	case p.Lat != nil || p.Lon != nil:

@@ -118,6 +118,9 @@ type Photo struct {
 	// reset to its factory default (e.g. 2000-01-01 00:04).
 	FactoryDate bool `json:"factory_default_date,omitempty"`
 
+	// ClockReset says, for the first photo after a reset of its camera's
+	// clock (cameras[].resets), what happened there; "" for other photos.
+	ClockReset string `json:"clock_reset,omitempty"`
 	// CameraDriftSPerDay and its 95 % interval are the drift of the
 	// photo's camera clock in the segment the photo belongs to (as in
 	// cameras[].segments[]); nil when the camera's drift is not determined.

@@ -132,6 +132,19 @@ func (p CameraPhoto) Segment() (clock.Segment, bool) {
 	return p.cam.Model.Segments[k], true
 }
 
+// ResetBefore returns the clock reset this photo is the first photo after,
+// if any.
+func (p CameraPhoto) ResetBefore() (clock.Reset, bool) {
+	if p.cam == nil {
+		return clock.Reset{}, false
+	}
+	r, ok := p.cam.resetAfter[p.k]
+	if !ok {
+		return clock.Reset{}, false
+	}
+	return p.cam.Model.Resets[r], true
+}
+
 // FitCameras fits every camera's clock from the time evidence of its photos
 // (see Examiner.ClockInput), in the clock's own time scale: a camera
 // carried to another zone without changing its clock keeps one model. It

@@ -85,6 +85,9 @@ func (r *Result) Photos(ctx context.Context, withSunPaths bool, fn func(p *repor
 	return r.each(ctx, func(k int, s *stored) error {
 		p := photo(r.entries[r.order[k]], s)
 		if s.Clock >= 0 {
+			if rs, ok := r.photoClock[s.Clock].ResetBefore(); ok {
+				p.ClockReset = solarcheck.ResetNote(rs)
+			}
 			if seg, ok := r.photoClock[s.Clock].Segment(); ok && seg.DriftMeasured {
 				d := clockSegment(seg)
 				p.CameraDriftSPerDay, p.CameraDriftLowSPerDay, p.CameraDriftHighSPerDay = d.DriftSPerDay, d.DriftLowSPerDay, d.DriftHighSPerDay

@@ -214,8 +214,13 @@ func TestTravelResetToNewZone(t *testing.T) {
 			t.Errorf("segment of %d photos: drift %v, note %q", sg.Photos, sg.DriftSPerDay, sg.DriftNote)
 		}
 	}
-	if p := photos["DSC_0005.JPG"]; !strings.Contains(p.Explanation, "reset") {
-		t.Errorf("the first photo after the reset does not say so: %q", p.Explanation)
+	if p := photos["DSC_0005.JPG"]; !strings.Contains(p.Explanation, "reset") || !strings.Contains(p.ClockReset, "DSC_0004.JPG") {
+		t.Errorf("the first photo after the reset does not say so: %q, clock_reset %q", p.Explanation, p.ClockReset)
+	}
+	for _, s := range shots {
+		if p := photos[s.name]; (p.ClockReset != "") != (s.name == "DSC_0005.JPG") {
+			t.Errorf("%s: clock_reset %q", s.name, p.ClockReset)
+		}
 	}
 }
 
@@ -258,8 +263,8 @@ func TestFactoryResetMidTrip(t *testing.T) {
 			t.Errorf("%s: dated by the set clock's model across the reset", s.name)
 		}
 	}
-	if p := photos["DSC_0004.JPG"]; !strings.Contains(p.Explanation, "factory date") {
-		t.Errorf("DSC_0004.JPG does not say the clock fell back: %q", p.Explanation)
+	if p := photos["DSC_0004.JPG"]; !strings.Contains(p.Explanation, "factory date") || !strings.Contains(p.ClockReset, "2000-01-01") {
+		t.Errorf("DSC_0004.JPG does not say the clock fell back: %q, clock_reset %q", p.Explanation, p.ClockReset)
 	}
 }
 
