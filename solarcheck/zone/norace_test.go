@@ -1,0 +1,5 @@
+//go:build !race
+
+package zone
+
+const raceEnabled = false
