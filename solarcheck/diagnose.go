@@ -7,6 +7,7 @@ import (
 	"strings"
 	"time"
 
+	"github.com/gnomon-forensics/gnomon/internal/sphere"
 	"github.com/gnomon-forensics/gnomon/solarcheck/clock"
 )
 
@@ -239,7 +240,7 @@ func (x *Examiner) hypotheses(f *Finding, iv Interval) []hypothesis {
 			continue // no zone kept that offset on that day
 		}
 		label := fmt.Sprintf("the time of a zone at %s", offsetLabel(home))
-		zones = rankZones(zones, zs)
+		zones = x.rankZones(zones, zs, f.LatDeg, f.LonDeg)
 		if len(zones) > 3 {
 			zones = zones[:3]
 		}
@@ -251,35 +252,61 @@ func (x *Examiner) hypotheses(f *Finding, iv Interval) []hypothesis {
 	return hs
 }
 
-// rankZones orders the example zones of a zone step by relevance: zones
-// of the place's own region first (the part of the IANA name before the
-// first "/", e.g. Europe; the embedded tz data carries no zone.tab with
-// country codes), then the other regional zones, then the Etc/ ones, each
-// group in the database's order. Zones where the same camera's other
-// photos were taken would rank higher still, but a photo is examined
-// alone, before its camera's model exists, so they are not known here.
-func rankZones(zones []string, place []zoneAt) []string {
+// rankZones orders the example zones of a zone step by relevance to the
+// place: zones of the place's own country first (zone.tab), then those of
+// its region (the part of the IANA name before the first "/", e.g.
+// Europe), then the other regional zones, then the Etc/ ones; within each
+// group the nearest principal city (zone.tab) first, and zones zone.tab
+// does not list after those, in the database's order. Zones where the same
+// camera's other photos were taken would rank higher still, but a photo is
+// examined alone, before its camera's model exists, so they are not known
+// here (the camera model names that zone itself).
+func (x *Examiner) rankZones(zones []string, place []zoneAt, latDeg, lonDeg float64) []string {
 	region := func(name string) string {
 		if i := strings.IndexByte(name, '/'); i > 0 {
 			return name[:i]
 		}
 		return name
 	}
-	home := map[string]bool{}
+	homeRegion, homeCountry := map[string]bool{}, map[string]bool{}
 	for _, z := range place {
-		home[region(z.name)] = true
+		homeRegion[region(z.name)] = true
+		if e, ok := x.zoneTab.Lookup(z.name); ok {
+			homeCountry[e.Country] = true
+		}
 	}
-	rank := func(name string) int {
+	type ranked struct {
+		name string
+		tier int
+		km   float64
+	}
+	rs := make([]ranked, len(zones))
+	for i, name := range zones {
+		r := ranked{name: name, tier: 2, km: math.Inf(1)}
+		e, listed := x.zoneTab.Lookup(name)
 		switch {
 		case strings.HasPrefix(name, "Etc/"):
-			return 2
-		case home[region(name)]:
-			return 0
+			r.tier = 3
+		case listed && homeCountry[e.Country]:
+			r.tier = 0
+		case homeRegion[region(name)]:
+			r.tier = 1
 		}
-		return 1
+		if listed && len(place) > 0 {
+			r.km = sphere.DistanceKm(latDeg, lonDeg, e.LatDeg, e.LonDeg)
+		}
+		rs[i] = r
 	}
-	out := append([]string(nil), zones...)
-	sort.SliceStable(out, func(i, j int) bool { return rank(out[i]) < rank(out[j]) })
+	sort.SliceStable(rs, func(i, j int) bool {
+		if rs[i].tier != rs[j].tier {
+			return rs[i].tier < rs[j].tier
+		}
+		return rs[i].km < rs[j].km
+	})
+	out := make([]string, len(rs))
+	for i, r := range rs {
+		out[i] = r.name
+	}
 	return out
 }
 

@@ -20,6 +20,8 @@ import (
 // concurrent use.
 type Examiner struct {
 	zones *zone.Finder
+	// zoneTab ranks example zones by country and distance (zone.tab).
+	zoneTab *zone.ZoneTab
 	// deltaT overrides ΔT (seconds) when non-nil; otherwise spa.DeltaT.
 	deltaT *float64
 
@@ -46,7 +48,7 @@ func NewExaminer(o Options) *Examiner {
 	if z == nil {
 		z = zone.NewFinder(nil)
 	}
-	return &Examiner{zones: z, deltaT: o.DeltaTSec, offsetsByDay: map[string]map[int][]string{}}
+	return &Examiner{zones: z, zoneTab: zone.NewZoneTab(), deltaT: o.DeltaTSec, offsetsByDay: map[string]map[int][]string{}}
 }
 
 // offsetsInUse returns the UTC offsets (seconds) that some zone of the tz

@@ -98,23 +98,35 @@ func TestShadowFitReported(t *testing.T) {
 	}
 }
 
-// TestZoneStepExamplesRanked: a camera on Madrid summer time (UTC+02:00)
-// photographing in Moscow (UTC+03:00 all year, no daylight saving since
-// 2014; IANA tz database). The zone-step explanation names zones of the
-// place's region (Europe/…) before the alphabetically first zones of that
-// offset (Africa/Blantyre, …).
+// TestZoneStepExamplesRanked: the example zones of a zone step come from
+// the place's country first, nearest first, then its region, before the
+// alphabetically first zones of that offset (Africa/Blantyre, …). Zone
+// facts from the IANA tz database and its zone.tab: Moscow keeps UTC+03:00
+// all year and Kaliningrad, also in Russia (RU), UTC+02:00; in June New
+// York keeps UTC−04:00, Phoenix (US, no daylight saving) and Los Angeles
+// (US, daylight saving) UTC−07:00, and Phoenix is the nearer to New York.
 func TestZoneStepExamplesRanked(t *testing.T) {
 	x := sharedExaminer()
-	truth := time.Date(2026, 6, 20, 10, 0, 0, 0, time.UTC)
-	madrid := mustLoc(t, "Europe/Madrid")
-	s := scene{trueUTC: truth, wall: truth.In(madrid), lat: 55.75, lon: 37.62, gps: true, gpsTime: ptr(truth)}
-	f := x.Examine(s.photo(t, "a.jpg"))
-	if f.Verdict != ZoneSlip {
-		t.Fatalf("verdict %s, want %s: %s", f.Verdict, ZoneSlip, f.Explanation)
+	truth := time.Date(2026, 6, 20, 16, 0, 0, 0, time.UTC)
+	tests := []struct {
+		name     string
+		camera   *time.Location
+		lat, lon float64
+		first    string // the first example zone
+		before   string // a zone that must come after the first examples
+	}{
+		{"camera on Madrid summer time in Moscow", mustLoc(t, "Europe/Madrid"), 55.75, 37.62, "Europe/Kaliningrad", "Africa/Blantyre"},
+		{"camera on UTC−07:00 in New York", time.FixedZone("UTC-07:00", -7*3600), 40.71, -74.0, "America/Phoenix, America/Los_Angeles", "America/Dawson"},
 	}
-	e, a := strings.Index(f.Explanation, "Europe/"), strings.Index(f.Explanation, "Africa/")
-	if e < 0 || (a >= 0 && a < e) {
-		t.Errorf("examples must list Europe/* first: %s", f.Explanation)
+	for _, tc := range tests {
+		s := scene{trueUTC: truth, wall: truth.In(tc.camera), lat: tc.lat, lon: tc.lon, gps: true, gpsTime: ptr(truth)}
+		f := x.Examine(s.photo(t, "a.jpg"))
+		if f.Verdict != ZoneSlip {
+			t.Fatalf("%s: verdict %s, want %s: %s", tc.name, f.Verdict, ZoneSlip, f.Explanation)
+		}
+		if !strings.Contains(f.Explanation, "(e.g. "+tc.first) || strings.Contains(f.Explanation, tc.before) {
+			t.Errorf("%s: examples must start with %s and not reach %s: %s", tc.name, tc.first, tc.before, f.Explanation)
+		}
 	}
 }
 
