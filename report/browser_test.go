@@ -77,15 +77,16 @@ func TestBrowserRendersSafely(t *testing.T) {
 		}
 		return n
 	}
-	wantSky, wantClock := 0, 0
+	wantSky, wantClock, wantResets := 0, 0, 0
 	for _, p := range a.Photos {
 		if buildSky(p) != nil {
 			wantSky++
 		}
 	}
 	for _, c := range a.Cameras {
-		if buildClock(c).Chart != nil {
+		if ch := buildClock(c).Chart; ch != nil {
 			wantClock++
+			wantResets += len(ch.Breaks)
 		}
 	}
 	presence := []struct {
@@ -96,6 +97,7 @@ func TestBrowserRendersSafely(t *testing.T) {
 		{"photo cards", count(func(e browsertest.Element) bool { return e.Name == "article" && e.HasClass("card") }), len(a.Photos)},
 		{"sky charts", count(func(e browsertest.Element) bool { return e.Name == "figure" && e.HasClass("sky") }), wantSky},
 		{"clock charts", count(func(e browsertest.Element) bool { return e.Name == "svg" && e.HasClass("clock") }), wantClock},
+		{"clock reset lines", count(func(e browsertest.Element) bool { return e.Name == "path" && e.HasClass("reset") }), wantResets},
 		{"sun-path tracks", count(func(e browsertest.Element) bool { return e.Name == "path" && e.HasClass("track") }), wantSky},
 		{"thumbnails", count(func(e browsertest.Element) bool { return e.Name == "img" }), 2},
 		{"methods section", count(func(e browsertest.Element) bool { return e.Name == "section" && e.Attrs["id"] == "methods" }), 1},

@@ -2,6 +2,7 @@ package report
 
 import (
 	"bytes"
+	"fmt"
 	"image"
 	"image/color"
 	"image/png"
@@ -148,6 +149,17 @@ func fixtureAudit() *Audit {
 		pts = append(pts, ClockPoint{Path: "quay/IMG_01" + string(rune('0'+i)) + ".JPG", ClaimedUTC: t.Format(time.RFC3339),
 			OffsetS: off, LowS: off - 60, HighS: off + 60, Outlier: i == 6})
 	}
+	// cam-D: a clock set one zone ahead on arrival: two segments and a reset.
+	var reset []ClockPoint
+	for i := range 6 {
+		t := day.Add(time.Duration(i) * 24 * time.Hour).Add(9 * time.Hour)
+		seg, off := 0, 3.0
+		if i >= 3 {
+			seg, off = 1, -2.0
+		}
+		reset = append(reset, ClockPoint{Path: fmt.Sprintf("trip/D_%04d.JPG", i+1), ClaimedUTC: t.Format(time.RFC3339),
+			OffsetS: off, LowS: off - 6, HighS: off + 6, Segment: seg})
+	}
 	return &Audit{
 		Schema: SchemaID,
 		Tool:   Tool{Name: "gnomon", Version: "0.1.0-test", GoVersion: "go1.26.8"},
@@ -170,6 +182,14 @@ func fixtureAudit() *Audit {
 			{ID: "cam-B", Photos: 9, OffsetS: fp(380), OffsetSDs: fp(12), DriftSPerDay: fp(5), DriftPPM: fp(57.9), OffsetAtUTC: pts[4].ClaimedUTC,
 				Outliers: []string{pts[6].Path}, Points: pts, Note: "Drifts about 2.5 minutes a month."},
 			{ID: "cam-A", Photos: 3},
+			{ID: "cam-D", Photos: 6, ClockZone: "UTC+02:00", OffsetS: fp(4), OffsetLowS: fp(-2), OffsetHighS: fp(10), OffsetAtUTC: reset[1].ClaimedUTC,
+				Segments: []ClockSegment{
+					{ClockZone: "UTC+02:00", Photos: 3, OffsetS: fp(4), OffsetLowS: fp(-2), OffsetHighS: fp(10), OffsetAtUTC: reset[1].ClaimedUTC, DriftNote: "only 3 photos have a time witness: a drift and its 95 % interval need at least 5 at different times"},
+					{ClockZone: "UTC+03:00", Photos: 3, OffsetS: fp(-2), OffsetLowS: fp(-8), OffsetHighS: fp(4), OffsetAtUTC: reset[4].ClaimedUTC, DriftNote: "only 3 photos have a time witness: a drift and its 95 % interval need at least 5 at different times"},
+				},
+				DriftNote: "only 3 photos have a time witness: a drift and its 95 % interval need at least 5 at different times",
+				Resets:    []string{reset[3].Path}, ResetNotes: []string{"The clock was reset by +1 h between trip/D_0003.JPG and trip/D_0004.JPG."},
+				Points: reset, Note: "The clock was reset 1 time(s); the figures above are for the segment with the most evidence (3 photos with a time witness); every segment is listed."},
 			{ID: hostSVG, Photos: 1, OffsetS: fp(-3600), Points: []ClockPoint{{Path: hostScript, ClaimedUTC: "2025-06-14T19:40:00Z", OffsetS: -3600, LowS: -3700, HighS: -3500}},
 				Outliers: []string{hostInvalid}},
 		},

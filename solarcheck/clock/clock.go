@@ -261,8 +261,20 @@ func Fit(points []Point, opt Options) (Model, error) {
 			}
 		}
 	}
+	// The zones each segment's photos suggest, gathered in one pass.
+	cands := make([]map[int]bool, len(m.Segments))
+	for i, p := range points {
+		if k := m.Photos[i].Segment; k >= 0 {
+			if cands[k] == nil {
+				cands[k] = map[int]bool{}
+			}
+			for _, c := range p.Zones {
+				cands[k][c] = true
+			}
+		}
+	}
 	for k := range m.Segments {
-		m.Segments[k].Zone = segmentZone(points, m.Photos, k, m.Segments[k])
+		m.Segments[k].Zone = segmentZone(cands[k], m.Segments[k])
 	}
 	for i, p := range points {
 		k := m.Photos[i].Segment
@@ -279,25 +291,16 @@ func Fit(points []Point, opt Options) (Model, error) {
 	return m, nil
 }
 
-// segmentZone decides which of the zone offsets suggested by segment k's
+// segmentZone decides which of the zone offsets suggested by a segment's
 // photos its clock was set to: the only one its offset's 95 % interval,
 // widened by zoneSlackSec, reaches. Two candidates a quarter or half hour
 // apart may both be reached, and a wide interval reaches several: then, as
 // for a clock off by more than a quarter hour from every candidate, the
 // zone is undecided.
-func segmentZone(points []Point, photos []Photo, k int, s Segment) Zone {
-	seen := map[int]bool{}
+func segmentZone(cands map[int]bool, s Segment) Zone {
 	var z Zone
-	for i, p := range points {
-		if photos[i].Segment != k {
-			continue
-		}
-		for _, c := range p.Zones {
-			if !seen[c] {
-				seen[c] = true
-				z.Candidates = append(z.Candidates, c)
-			}
-		}
+	for c := range cands {
+		z.Candidates = append(z.Candidates, c)
 	}
 	sort.Ints(z.Candidates)
 	fits := 0
