@@ -21,10 +21,10 @@
 //
 // Lighting consistency: with two or more objects, the light rays from the
 // shadow tips through the tops meet in one image point, the sun's vanishing
-// point (E. Kee, J. O'Brien and H. Farid, "Exposing Photo Manipulation from
-// Shading and Shadows", ACM Transactions on Graphics 33(5), 2014; preprint
-// 2013). Here it is a likelihood-ratio test: the fit with one sun for all
-// objects against the fit with a sun of its own for each.
+// point (E. Kee, J. F. O'Brien and H. Farid, "Exposing Photo Manipulation
+// with Inconsistent Shadows", ACM Transactions on Graphics 32(3), 2013).
+// Here it is a likelihood-ratio test: the fit with one sun for all objects
+// against the fit with a sun of its own for each.
 //
 // Pixel convention: coordinates of the photo as displayed (after its EXIF
 // orientation), origin at the top-left corner of the image, x to the right,

@@ -17,21 +17,21 @@ import (
 var stated = noise{px: 1.5, focalFrac: 0.03, bearingDeg: 1, headingDeg: 15}
 
 // noisyCombos are the combinations the noisy tests solve in every scene:
-// each way of fixing the vertical with each source of the sun, and each
-// bearing reference. With MARKS_ALL=1 two more (the weakest vertical, and
-// the compass with the horizon) join, as for README's figures.
+// one object with the horizon and a map line, three objects with a map line
+// and a compass, and the sun's disc with and without an object. With
+// MARKS_ALL=1 four more join, as for README's figures.
 var noisyCombos = []combo{
 	{objects: 1, horizon: true, ground: true},
-	{objects: 2, ground: true},
 	{objects: 3, ground: true, head: true},
-	{objects: 3, edge: true, horizon: true, ground: true},
 	{objects: 1, edge: true, sun: true, head: true},
 	{objects: 0, edge: true, horizon: true, sun: true, ground: true},
 }
 
 var moreCombos = []combo{
 	{objects: 1, edge: true},
+	{objects: 2, ground: true},
 	{objects: 2, horizon: true, head: true},
+	{objects: 3, edge: true, horizon: true, ground: true},
 }
 
 type outcome struct {
@@ -110,8 +110,8 @@ func pct(xs []float64, q float64) float64 {
 // refusal gate refuses the cases with large errors while the accepted ones
 // stay small. Witness: cv2.projectPoints (testdata/gen_scenes.py).
 func TestNoisyRecoveryAndCoverage(t *testing.T) {
-	if testing.Short() {
-		t.Skip("Monte Carlo over the reference scenes")
+	if testing.Short() || underRace {
+		t.Skip("Monte Carlo over the reference scenes: skipped with -short and under the race detector, which has nothing to find in one goroutine")
 	}
 	combos := noisyCombos
 	if os.Getenv("MARKS_ALL") == "1" {
