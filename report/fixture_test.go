@@ -60,6 +60,7 @@ func fixtureAudit() *Audit {
 	path := sunDay(day, lat, lon)
 	photo := func(p Photo, claimed time.Time) Photo {
 		p.Root = "/cases/harbour"
+		p.ID = "harbour/" + p.Path
 		p.SHA256 = "9f2c0b5e7a1d4c3b8e6f0a2d4c6e8b0a1c3e5f7092b4d6f8a0c2e4b6d8f0a2c4"
 		p.Size = 4_812_337
 		p.Container = "jpeg"
@@ -98,7 +99,7 @@ func fixtureAudit() *Audit {
 		CorrectedUTCEarliest: "2025-06-14T15:00:00Z", CorrectedUTCLatest: "2025-06-14T15:06:00Z", ZoneOptions: []string{"Europe/Paris", "Europe/Monaco"}}, at(13, 3))
 	night := photo(Photo{Path: "market/DSC_2017.NEF", Camera: "cam-C", Verdict: "ampm_slip",
 		Explanation: "A daylight exposure (1/1000 s, f/8, ISO 100) stamped 02:15; at 14:15 the sun fits.", OffsetS: fp(-43200), OffsetLowS: fp(-43500), OffsetHighS: fp(-42900)}, at(0, 15))
-	broken := Photo{Path: "misc/truncated.jpg", Root: "/cases/harbour", Size: 0, Verdict: "unreadable", Error: "exifread: damaged: file is empty"}
+	broken := Photo{Path: "misc/truncated.jpg", Root: "/cases/harbour", ID: "harbour/misc/truncated.jpg", Size: 0, Verdict: "unreadable", Error: "exifread: damaged: file is empty"}
 	hostile := photo(Photo{Path: hostScript, Camera: hostImg, Verdict: "light_mismatch", Explanation: hostSVG,
 		Thumbnail: hostJSURL, ClaimSource: hostFormula, Zone: hostRTL, Container: hostStyle,
 		Checks:   []Check{{Kind: "exposure", Status: "disagrees", Figure: fp(-6.5), Unit: "EV", Uncertainty: fp(2), Sentence: hostFormula2}},
@@ -106,7 +107,7 @@ func fixtureAudit() *Audit {
 		Error:    hostRTL + " " + hostInvalid}, at(19, 40))
 	hostile.ClaimedLocal = hostFormula
 	hostile.FileNotes = []string{"extension .jpg suggests jpeg but the bytes are png", hostFormula2, hostInvalid}
-	weird := Photo{Path: hostInvalid, Root: "/cases/harbour", Camera: "-2+3", Verdict: "unverified",
+	weird := Photo{Path: hostInvalid, Root: "/cases/harbour", ID: "harbour/" + hostInvalid, Camera: "-2+3", Verdict: "unverified",
 		Explanation: "@no independent evidence", Lat: fp(math.NaN()), Lon: fp(200)}
 	place := photo(Photo{Path: "z/far.jpg", Camera: "cam-A", Verdict: "place_mismatch", ShadowFix: &Fix{Lat: 40.9, Lon: 14.2, RadiusKm: 35},
 		Explanation: "The shadows fit the GPS time only about 800 km to the south-east."}, at(10, 10))

@@ -69,8 +69,12 @@ type Counts struct {
 
 // Photo is everything the report says about one file.
 type Photo struct {
-	Path         string   `json:"path"` // relative to its input root, slash-separated
-	Root         string   `json:"root"` // the input root as given on the command line
+	Path string `json:"path"` // relative to its input root, slash-separated
+	Root string `json:"root"` // the input root as given on the command line
+	// ID names the photo uniquely across the inputs, as the sheet template
+	// and cameras[] name it: the input's label (its folder name, with parent
+	// folders added while two inputs share it), then Path.
+	ID           string   `json:"id"`
 	SHA256       string   `json:"sha256"`
 	Size         int64    `json:"size"`
 	Container    string   `json:"container"`

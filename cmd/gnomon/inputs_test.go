@@ -44,6 +44,7 @@ type auditDoc struct {
 	Photos []struct {
 		Path     string            `json:"path"`
 		Root     string            `json:"root"`
+		ID       string            `json:"id"`
 		Verdict  string            `json:"verdict"`
 		Measured []json.RawMessage `json:"measured"`
 	} `json:"photos"`
@@ -104,7 +105,7 @@ func TestAuditTwoCardsSameName(t *testing.T) {
 	d := readAuditJSON(t, out)
 	measured := map[string]int{}
 	for _, p := range d.Photos {
-		measured[filepath.Base(p.Root)+"/"+p.Path] = len(p.Measured)
+		measured[p.ID] = len(p.Measured)
 	}
 	want := map[string]int{"card1/DCIM/IMG_0001.JPG": 1, "card2/DCIM/IMG_0001.JPG": 0, "card2/DCIM/IMG_0002.JPG": 1}
 	for id, n := range want {

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 
 	"github.com/gnomon-forensics/gnomon/exifread"
@@ -11,9 +12,9 @@ import (
 func runSheet(e env, args []string) int {
 	fs := newFlagSet(e, "sheet", "gnomon sheet DIR|FILE...",
 		"Write to stdout a measurement-sheet template (CSV, RFC 4180) with one row per photo under the\n"+
-			"inputs: the photo's path relative to its folder and a note with its claimed local time and GPS\n"+
-			"place. Fill in one row per measured object (copy a row for a second object); pass the sheet to\n"+
-			"`gnomon audit --shadows`. The columns are listed in the README.")
+			"inputs: the photo's name (its input folder's name and its path inside it) and a note with its\n"+
+			"claimed local time and GPS place. Fill in one row per measured object (copy a row for a second\n"+
+			"object); pass the sheet to `gnomon audit --shadows`. The columns are listed in the README.")
 	if code, done := parseFlags(fs, args); done {
 		return code
 	}
@@ -21,6 +22,9 @@ func runSheet(e env, args []string) int {
 		return usageErr(fs, "no input folder or file given")
 	}
 	entries, err := audit.Walk(fs.Args())
+	if errors.Is(err, audit.ErrNestedInput) {
+		return usageErr(fs, "%v", err)
+	}
 	if err != nil {
 		return fail(e.stderr, "sheet", err)
 	}

@@ -110,6 +110,7 @@ func photo(e Entry, s *stored) report.Photo {
 	p := report.Photo{
 		Path:        e.Rel,
 		Root:        e.Root,
+		ID:          e.ID,
 		SHA256:      s.SHA256,
 		Size:        s.Size,
 		Container:   s.Container,
