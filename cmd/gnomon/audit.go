@@ -79,7 +79,7 @@ func runAudit(e env, args []string) int {
 		return usageErr(fs, "%v", err)
 	}
 	// Checked here, before anything is written, so that an input inside
-	// another is a usage error; doAudit's walk resolves them again.
+	// another is a usage error; doAudit resolves them again.
 	if _, err = audit.Inputs(cfg.inputs); err != nil {
 		if errors.Is(err, audit.ErrNestedInput) {
 			return usageErr(fs, "%v", err)
@@ -248,9 +248,19 @@ func doAudit(ctx context.Context, e env, cfg auditConfig) (sum summary, err erro
 		}
 	}()
 
-	entries, err := audit.Walk(cfg.inputs)
+	ins, err := audit.Inputs(cfg.inputs)
 	if err != nil {
 		return sum, err
+	}
+	entries, err := audit.WalkInputs(ins)
+	if err != nil {
+		return sum, err
+	}
+	var notes []string
+	for _, in := range ins {
+		for _, same := range in.Same {
+			notes = append(notes, fmt.Sprintf("The input %q is the same as %q and was read once.", same, in.Arg))
+		}
 	}
 	var sh *sheet.Sheet
 	var sheetSHA string
@@ -313,6 +323,7 @@ func doAudit(ctx context.Context, e env, cfg auditConfig) (sum summary, err erro
 		ZoneMap:     zmap,
 		Magnetic:    "WMM2025 (NOAA NCEI and BGS), valid 2025.0-2030.0",
 		SelfTest:    selfTestReport(st),
+		Notes:       notes,
 	}
 	head := audit.Head(res, h)
 	if lateThumbs {

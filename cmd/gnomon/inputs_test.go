@@ -40,6 +40,7 @@ func writePhoto(t *testing.T, p string, wall string, lat, lon float64) {
 type auditDoc struct {
 	Run struct {
 		SheetErrors []string `json:"sheet_errors"`
+		Notes       []string `json:"notes"`
 	} `json:"run"`
 	Photos []struct {
 		Path     string            `json:"path"`
@@ -132,8 +133,13 @@ func TestAuditInputsOnce(t *testing.T) {
 	if code, _, stderr := captureRun("audit", "ph", "ph/", "./ph", "--out", out, "--quiet", "--formats", "json"); code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	if n := len(readAuditJSON(t, out).Photos); n != 4 {
+	d := readAuditJSON(t, out)
+	if n := len(d.Photos); n != 4 {
 		t.Errorf("%d rows for 4 files", n)
+	}
+	wantNotes := []string{`The input "ph/" is the same as "ph" and was read once.`, `The input "./ph" is the same as "ph" and was read once.`}
+	if strings.Join(d.Run.Notes, "\n") != strings.Join(wantNotes, "\n") {
+		t.Errorf("notes %q, want %q", d.Run.Notes, wantNotes)
 	}
 
 	for _, args := range [][]string{{"ph", "ph/sub"}, {"ph/sub/c.jpg", "ph"}} {

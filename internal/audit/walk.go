@@ -65,6 +65,9 @@ type Input struct {
 	// or as many last elements as it takes to tell it from every other
 	// input's (/a/card and /b/card are "a/card" and "b/card").
 	Label string
+	// Same lists the other arguments that name this input ("ph/" and
+	// "./ph" beside "ph"): read once, under Arg.
+	Same []string
 }
 
 // Inputs resolves the inputs given on the command line. Inputs with the
@@ -76,7 +79,7 @@ type Input struct {
 func Inputs(args []string) ([]Input, error) {
 	var ins []Input
 	var errs []error
-	seen := map[string]bool{}
+	seen := map[string]int{} // real path → index in ins
 	for _, a := range args {
 		abs, err := filepath.Abs(a)
 		if err == nil {
@@ -84,8 +87,10 @@ func Inputs(args []string) ([]Input, error) {
 			if st, err = os.Stat(abs); err == nil {
 				var real string
 				if real, err = filepath.EvalSymlinks(abs); err == nil {
-					if !seen[real] {
-						seen[real] = true
+					if i, ok := seen[real]; ok {
+						ins[i].Same = append(ins[i].Same, a)
+					} else {
+						seen[real] = len(ins)
 						ins = append(ins, Input{Arg: a, Abs: abs, Real: real, IsDir: st.IsDir()})
 					}
 					continue
