@@ -221,10 +221,12 @@ func TestNarrowerWithBetterBearings(t *testing.T) {
 
 // TestCoverage simulates 1,000 photos at random places and times with
 // shadows perturbed at their stated uncertainty, and counts how often the
-// 95 % interval holds the true offset (0). A correct consistency set covers
-// the truth with probability 0.95 (the misfit at the true time is
-// chi-square distributed); the binomial 99.9 % band for n = 1000 is about
-// ±0.023.
+// 95 % interval holds the true offset (0). A correct 95 % profile interval
+// covers the truth with probability 0.95 (χ² at the true time minus χ² at
+// the best time is chi-square distributed with one degree of freedom, the
+// time); photos whose shadows fit no time near the claim (about 5 %, the
+// goodness-of-fit test's level) have no interval and are not counted. The
+// binomial 99.9 % band for n = 1000 is about ±0.023.
 func TestCoverage(t *testing.T) {
 	if testing.Short() {
 		t.Skip("simulation skipped in -short mode")
