@@ -132,30 +132,53 @@ func fitPhrase(fit Fit) string {
 }
 
 // seasonCheck runs when no time within ±14 h of the claim fits the shadows
-// (near is the closest time there, if the sun was up at all): it searches
-// the half-year either side for the dates on which the sun could have cast
-// them, and reports every band of such dates, nearest first. The sun's
-// declination repeats about each solstice, so a direction usually fits in
-// two bands a year.
+// (near is the closest time there, nil when the sun was never up): it
+// searches the half-year either side for the dates on which the sun could
+// have cast them. Date and time of day are then two parameters of
+// interest, so the dates that fit are those of the joint 95 % region,
+// whose least misfit lies within χ² 5.991 (two degrees of freedom) of the
+// best in the year; the claimed date is ruled out only when its own least
+// misfit lies beyond that. The sun's declination repeats about each
+// solstice, so the dates usually form two bands a year, each reported,
+// nearest first.
 func (x *Examiner) seasonCheck(f *Finding, q invert.Query, near *invert.Window) {
 	nearText := "the sun never stood high enough near the claim for shadows"
+	nearChi := math.Inf(1)
 	var nearFit *Fit
 	if near != nil {
 		fit := windowFit(*near)
-		nearFit = &fit
+		nearFit, nearChi = &fit, fit.Chi2
 		nearText = "the closest fit near the claim has " + strings.Trim(fitPhrase(fit), "()")
 	}
+	joint := chisq.P95(2)
 	q.From, q.To = f.Claimed.AddDate(0, 0, -182), f.Claimed.AddDate(0, 0, 182)
+	q.MaxMisfit = chisq.Point(invert.FitLevel, q.Measurement.FitDof()) + joint
 	res, err := invert.When(q)
+	least := math.Inf(1)
+	for _, w := range res.Windows {
+		if w.Fits() {
+			least = min(least, w.Misfit)
+		}
+	}
 	c := Check{Kind: KindShadowTime, Status: Conflicts, Fit: nearFit}
 	switch {
 	case err != nil:
 		c.Sentence = "No time near the claim fits the shadows (" + nearText + "), and the year-long search failed: " + err.Error() + "."
-	case len(res.Windows) == 0:
+	case math.IsInf(least, 1):
 		c.Sentence = "The shadows fit the sun at no time within half a year of the claim at this place (" + nearText + "): the measurements or the place are likely wrong, and the shadows say nothing about the time."
 		f.Basis.ShadowMisfit = true
+	case nearChi-least < joint:
+		c.Status = Open
+		c.Sentence = fmt.Sprintf("The shadows fit the sun poorly at every time near the claim (%s). Other dates within half a year fit them better (least misfit χ² %.1f), but not by enough to rule out the claimed date: the shadows cannot tell the time.", nearText, least)
+		f.Basis.ShadowMisfit = true
 	default:
-		bands := dateBands(res.Windows, f.LonDeg, f.Claimed)
+		var keep []invert.Window
+		for _, w := range res.Windows {
+			if w.Misfit < least+joint {
+				keep = append(keep, w)
+			}
+		}
+		bands := dateBands(keep, f.LonDeg, f.Claimed)
 		f.SeasonBands = bands
 		c.Figure, c.HasFigure, c.Unit = bands[0].DaysFromClaim, true, "days"
 		parts := make([]string, len(bands))

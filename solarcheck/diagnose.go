@@ -74,7 +74,7 @@ func diagnose(f *Finding, x *Examiner) {
 		f.Explanation = reset + f.Explanation
 	}
 	if f.Basis.ShadowMisfit {
-		f.Explanation += " The shadows were not used: they fit the sun at no time within half a year of the claim."
+		f.Explanation += " The shadows were not used: they fit the sun well at no time near the claim (see the shadow check)."
 	}
 }
 

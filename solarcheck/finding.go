@@ -231,7 +231,7 @@ type Basis struct {
 	ShadowOffset *Interval // from the shadows, nil without
 	GPSOffset    *Interval // from the GPS clock, nil without
 	SeasonOff    bool      // shadows fit another season only
-	ShadowMisfit bool      // shadows fit the sun at no time within half a year
+	ShadowMisfit bool      // shadows fit the sun nowhere near the claim, and no other date rules it out
 	LightOff     bool      // the exposure conflicts with the light at the claim
 	StepSec      float64   // the step (zone, DST, 12 h) the verdict names; 0 for none
 	PlaceNote    string    // why a GPS position in the file was not used, as a sentence

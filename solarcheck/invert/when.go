@@ -157,6 +157,12 @@ type Query struct {
 	Measurement Measurement
 	// DeltaT gives ΔT in seconds for an instant; nil means spa.DeltaT.
 	DeltaT func(time.Time) float64
+	// MaxMisfit, when positive, makes Result.Windows list every window
+	// whose least misfit is below it, fitting or not (Window.Fits still
+	// tells), for callers that build a joint region over several
+	// parameters, such as date and time of day. It should be at least the
+	// goodness-of-fit point. Zero lists the windows that fit.
+	MaxMisfit float64
 }
 
 // Window is one interval of time about a local minimum of the misfit
@@ -201,7 +207,7 @@ type Result struct {
 // searcher holds one When search.
 type searcher struct {
 	m      Measurement
-	fitThr float64 // χ² below which a minimum fits (FitLevel, FitDof)
+	fitThr float64 // χ² below which a minimum is listed (FitLevel, FitDof; or Query.MaxMisfit)
 	delta  float64 // Δχ² of the 95 % profile interval (ProfileDof)
 	o      spa.Observer
 	eph    *spa.Ephemeris
@@ -242,7 +248,12 @@ func When(q Query) (Result, error) {
 		dt = spa.DeltaT
 	}
 	m := q.Measurement
+	listed := func(w Window) bool { return w.Fits() }
 	s := &searcher{m: m, fitThr: chisq.Point(FitLevel, m.FitDof()), delta: chisq.P95(ProfileDof), o: o, spanS: span.Seconds()}
+	if q.MaxMisfit > 0 {
+		s.fitThr = max(s.fitThr, q.MaxMisfit)
+		listed = func(w Window) bool { return w.Misfit < q.MaxMisfit }
+	}
 	s.sinPhi, s.cosPhi = math.Sincos(o.LatDeg * deg)
 	s.maxRefrDeg = max(0, spa.Refraction(-0.8333, o.PressureHPa, o.TemperatureC)) + 0.01
 	s.n = int(math.Ceil(s.spanS / gridStep.Seconds()))
@@ -273,7 +284,7 @@ func When(q Query) (Result, error) {
 	}
 	var res Result
 	for _, w := range wins {
-		if win := toWindow(w); win.Fits() {
+		if win := toWindow(w); listed(win) {
 			res.Windows = append(res.Windows, win)
 		}
 	}

@@ -372,3 +372,28 @@ func TestWhenContinuousPolarDay(t *testing.T) {
 		t.Errorf("%s: want one window covering the whole range, got %+v", source, ws)
 	}
 }
+
+// TestWhenMaxMisfit: with Query.MaxMisfit a window that does not fit is
+// listed (and says so); without it, only the closest window reports it.
+// Altitude 70° at 48.85° N, where the sun climbs to at most 64.6° (90° −
+// 48.85° + 23.44°; common knowledge), with σ 2°: misfit about 7.
+func TestWhenMaxMisfit(t *testing.T) {
+	from := time.Date(2024, 6, 21, 0, 0, 0, 0, time.UTC)
+	q := Query{Observer: spa.NewObserver(48.85, 2.35, 0), From: from, To: from.Add(24*time.Hour - time.Second),
+		Measurement: Measurement{HasAltitude: true, AltitudeDeg: 70, AltitudeSDDeg: 2}}
+	r, err := When(q)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(r.Windows) != 0 || r.Closest == nil || r.Closest.Fits() || r.Closest.Misfit < 5 || r.Closest.Misfit > 9 {
+		t.Fatalf("common knowledge: 70° is out of reach: %+v, closest %+v", r.Windows, r.Closest)
+	}
+	q.MaxMisfit = 20
+	r, err = When(q)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(r.Windows) != 1 || r.Windows[0].Fits() || r.Windows[0].Best.Sub(r.Closest.Best).Abs() > 2*time.Second {
+		t.Errorf("MaxMisfit 20: want the one non-fitting window near noon, got %+v", r.Windows)
+	}
+}
