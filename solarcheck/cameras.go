@@ -4,11 +4,13 @@ import (
 	"errors"
 	"fmt"
 	"path"
+	"slices"
 	"sort"
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/internal/figure"
 	"github.com/gnomon-forensics/gnomon/solarcheck/clock"
+	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
 )
 
 // ClockInput is what a camera's clock model needs of one photo. It is a
@@ -30,10 +32,12 @@ type ClockInput struct {
 	// the place's legal time keeps one clock across a daylight-saving
 	// change or a journey).
 	Tagged bool
-	// PlaceZone is the IANA zone of the place ("" when unknown): a clock
+	// PlaceZone is the IANA zone of the place ("" when unknown) and
+	// PlaceOffsetSec the offset it kept at the claimed instant: a clock
 	// kept on the time of another place the camera was at is on another
 	// zone's time there.
-	PlaceZone string
+	PlaceZone      string
+	PlaceOffsetSec int
 	// Offset is the photo's own time evidence in the clock's scale (the
 	// reading minus the evidence's instant), if HasEvidence; photos
 	// without keep their place in the order checks.
@@ -44,7 +48,8 @@ type ClockInput struct {
 // ClockInput returns what f's camera model needs of it; false when f names
 // no camera or claims no time, so it has no place in any camera's model.
 func (x *Examiner) ClockInput(f *Finding) (ClockInput, bool) {
-	if f.Camera == "" || !f.HasClaimed || f.Wall.IsZero() {
+	// A wall time the examiner typed into the sheet is not a clock reading.
+	if f.Camera == "" || !f.HasClaimed || f.Wall.IsZero() || f.WallTag == sheetTimeTag {
 		return ClockInput{}, false
 	}
 	w := f.Wall
@@ -56,20 +61,22 @@ func (x *Examiner) ClockInput(f *Finding) (ClockInput, bool) {
 		in.Tagged = true
 	}
 	in.Reading = reading
-	if len(f.PlaceZones) > 0 {
-		in.PlaceZone = f.PlaceZones[0]
-	}
-	// The offset the claim was read with: reading = claimed + offset.
-	claimOff := reading.Sub(f.Claimed).Seconds()
-	in.Zones = []int{int(claimOff)}
 	for _, c := range f.Claim.Candidates {
 		if !c.UTC.Equal(f.Claimed) {
 			in.Instants = append(in.Instants, c.UTC)
 		}
 	}
-	for _, z := range x.zoneOffsets(f, f.Claimed) {
-		if _, off := f.Claimed.In(z.loc).Zone(); !in.Tagged && off != in.Zones[0] {
-			in.Zones = append(in.Zones, off)
+	// The offset the claim was read with: reading = claimed + offset. It
+	// suggests a zone unless the examiner gave the instant outright.
+	claimOff := reading.Sub(f.Claimed).Seconds()
+	if f.Claim.Rule != zone.RuleOverrideTime {
+		in.Zones = append(in.Zones, int(claimOff))
+	}
+	if zs := x.zoneOffsets(f, f.Claimed); len(zs) > 0 {
+		_, in.PlaceOffsetSec = f.Claimed.In(zs[0].loc).Zone()
+		in.PlaceZone = zs[0].name
+		if !in.Tagged && !slices.Contains(in.Zones, in.PlaceOffsetSec) {
+			in.Zones = append(in.Zones, in.PlaceOffsetSec)
 		}
 	}
 	if hasTimeEvidence(f) {
@@ -100,8 +107,7 @@ type Camera struct {
 	// resetAfter[k] is the reset that Inputs[k] is the first photo after.
 	resetAfter map[int32]int
 	// placesAt[s][offset] are the zones of the places where segment s's
-	// photos were taken with their claims read at that offset (untagged
-	// photos only): where the clock's setting was the place's time.
+	// untagged photos were taken while the place kept that offset.
 	placesAt []map[int]map[string]bool
 }
 
@@ -215,10 +221,10 @@ func (x *Examiner) FitCameras(inputs []ClockInput) (*Cameras, []CameraPhoto) {
 			if cam.placesAt[sg] == nil {
 				cam.placesAt[sg] = map[int]map[string]bool{}
 			}
-			if cam.placesAt[sg][in.Zones[0]] == nil {
-				cam.placesAt[sg][in.Zones[0]] = map[string]bool{}
+			if cam.placesAt[sg][in.PlaceOffsetSec] == nil {
+				cam.placesAt[sg][in.PlaceOffsetSec] = map[string]bool{}
 			}
-			cam.placesAt[sg][in.Zones[0]][in.PlaceZone] = true
+			cam.placesAt[sg][in.PlaceOffsetSec][in.PlaceZone] = true
 		}
 		cs.List = append(cs.List, cam)
 	}

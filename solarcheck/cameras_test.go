@@ -89,3 +89,21 @@ func TestCameraClockOpenWithFewPhotos(t *testing.T) {
 		}
 	}
 }
+
+// TestSheetTimeIsNoClockReading: a wall time the examiner typed into the
+// sheet for a file without one is not what the camera's clock showed, so
+// the photo has no place in its camera's clock model.
+func TestSheetTimeIsNoClockReading(t *testing.T) {
+	x := sharedExaminer()
+	zurich := mustLoc(t, "Europe/Zurich")
+	truth := time.Date(2026, 6, 1, 10, 0, 0, 0, time.UTC)
+	s := scene{trueUTC: truth, wall: truth.In(zurich), lat: 47.37, lon: 8.54, gps: true, gpsTime: ptr(truth), camera: "Cam"}
+	f := x.Examine(s.photo(t, "h/IMG_0001.jpg"))
+	if _, ok := x.ClockInput(&f); !ok {
+		t.Fatal("a photo with its own capture time is left out of its camera's model")
+	}
+	f.WallTag = sheetTimeTag
+	if _, ok := x.ClockInput(&f); ok {
+		t.Error("a sheet time was taken for a clock reading")
+	}
+}

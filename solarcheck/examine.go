@@ -97,6 +97,10 @@ func (x *Examiner) sunAt(f *Finding, t time.Time) spa.Position {
 	return spa.At(t, spa.NewObserver(f.LatDeg, f.LonDeg, f.ElevationM), x.deltaTAt(t))
 }
 
+// sheetTimeTag is Finding.WallTag for a wall time taken from the
+// examiner's sheet because the file has none.
+const sheetTimeTag = "sheet time"
+
 // Examine runs every check on one photo and diagnoses it. It never fails:
 // what cannot be judged is said in the finding.
 func (x *Examiner) Examine(p Photo) Finding {
@@ -120,7 +124,7 @@ func (x *Examiner) Examine(p Photo) Finding {
 
 	override := p.Override
 	if wall.IsZero() && !override.Wall.IsZero() {
-		f.Wall, f.WallTag = override.Wall, "sheet time"
+		f.Wall, f.WallTag = override.Wall, sheetTimeTag
 	}
 	if f.Wall.IsZero() && !override.Time.HasInstant {
 		f.Verdict = Unverified
