@@ -218,3 +218,25 @@ func TestHonestPhotosRarelyMoveSeason(t *testing.T) {
 		t.Errorf("%d of %d honest photos called season_mismatch, want at most 2.5 %%", season, used)
 	}
 }
+
+// TestSeasonBandAcrossSolstice: shadows of 10 July claimed in January. Near
+// the June solstice the declination barely changes, so the dates that fit
+// run through the solstice as one band from late May to mid-July (the
+// issue's example: 23 May to 19 Jul for a 10 July truth), holding both the
+// true date and 21 June (common knowledge: the declination's maximum).
+func TestSeasonBandAcrossSolstice(t *testing.T) {
+	x := sharedExaminer()
+	zurich := mustLoc(t, "Europe/Zurich")
+	truth := time.Date(2026, 7, 10, 12, 0, 0, 0, time.UTC)
+	s := scene{trueUTC: truth, wall: time.Date(2026, 1, 10, 12, 0, 0, 0, time.UTC).In(zurich), lat: 46.2, lon: 6.15, shadows: 3}
+	f := x.Examine(s.photo(t, "a.jpg"))
+	if f.Verdict != SeasonMismatch || len(f.SeasonBands) == 0 {
+		t.Fatalf("verdict %s, bands %+v: %s", f.Verdict, f.SeasonBands, f.Explanation)
+	}
+	b := f.SeasonBands[0]
+	solstice := time.Date(2026, 6, 21, 0, 0, 0, 0, time.UTC)
+	if b.First.After(solstice) || b.Last.Before(truth.Truncate(24*time.Hour)) {
+		t.Errorf("common knowledge: want one band through the solstice to the true date, got %s to %s (all: %+v)", b.First.Format(time.DateOnly), b.Last.Format(time.DateOnly), f.SeasonBands)
+	}
+	t.Logf("band %s to %s", b.First.Format(time.DateOnly), b.Last.Format(time.DateOnly))
+}
