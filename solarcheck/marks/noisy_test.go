@@ -171,6 +171,14 @@ func TestNoisyRecoveryAndCoverage(t *testing.T) {
 	fmt.Fprintf(&b, "±1.96σ coverage: altitude %.1f %% of %d, azimuth %.1f %% of %d; largest accepted error: altitude %.1f°, azimuth %.1f°; largest refused error %.1f°",
 		100*covAlt, nAlt, 100*covAz, nAz, worstAccepted, worstAcceptedAz, worstRefused)
 	t.Log(b.String())
+	// The gate: what it lets through stays within a few degrees in
+	// altitude; what it refuses includes errors of tens of degrees.
+	if worstAccepted > 5 {
+		t.Errorf("an accepted altitude is %.1f° off, want within 5°", worstAccepted)
+	}
+	if worstRefused < 20 {
+		t.Errorf("the refused cases' largest error is %.1f°: the gate refuses nothing that matters", worstRefused)
+	}
 	if covAlt < 0.93 || covAlt > 0.97 {
 		t.Errorf("altitude coverage %.1f %%, want 93–97 %%", 100*covAlt)
 	}

@@ -334,6 +334,13 @@ func fitOnce(in Input) (m *model, p []float64, chi2 float64, ref *Refusal) {
 		}
 	}
 	if p == nil {
+		// No start could place the marks on the ground: when the vertical
+		// lines all stand at one bearing, that is the reason to give.
+		if ups := m.startUps(); len(ups) > 0 {
+			if spread, same := sameBearing(in, m.cam, newFrame(ups[0])); same {
+				return nil, nil, 0, sameBearingRefusal(spread)
+			}
+		}
 		return nil, nil, 0, ref
 	}
 	if math.IsInf(chi2, 1) {
@@ -444,7 +451,7 @@ func gate(in Input, e *estimate) *Refusal {
 	fr := newFrame(u)
 	cam := camera{f: e.fPx, cx: m.cam.cx, cy: m.cam.cy}
 	if spread, ok := sameBearing(in, cam, fr); ok {
-		return &Refusal{Kind: RefuseSameBearing, Sentence: fmt.Sprintf("the vertical lines all stand at nearly the same bearing from the camera (within %.1f°), so they nearly coincide in the picture and do not fix the vertical direction: mark a vertical line elsewhere in the picture or the horizon", spread)}
+		return sameBearingRefusal(spread)
 	}
 	if e.upSD > MaxVerticalSDDeg {
 		return &Refusal{Kind: RefuseUpUncertain, Sentence: fmt.Sprintf("the vertical direction is too uncertain (±%.1f°, 1-sigma; at most ±%.0f° is used): mark more vertical lines far apart in the picture, or the horizon", e.upSD, MaxVerticalSDDeg)}
@@ -493,6 +500,10 @@ func gate(in Input, e *estimate) *Refusal {
 		}
 	}
 	return nil
+}
+
+func sameBearingRefusal(spreadDeg float64) *Refusal {
+	return &Refusal{Kind: RefuseSameBearing, Sentence: fmt.Sprintf("the vertical lines all stand at nearly the same bearing from the camera (within %.1f°), so they nearly coincide in the picture and do not fix the vertical direction: mark a vertical line elsewhere in the picture or the horizon", spreadDeg)}
 }
 
 // sameBearing reports whether, with no horizon, all vertical lines stand
