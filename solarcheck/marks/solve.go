@@ -75,7 +75,11 @@ func determine(in Input) Result {
 	}
 	var how []string
 	if len(in.Objects) > 0 {
-		how = append(how, "the shadow of "+plural(len(in.Objects), "object", "objects"))
+		if len(in.Objects) == 1 {
+			how = append(how, "the shadow of one object")
+		} else {
+			how = append(how, fmt.Sprintf("the shadows of %d objects", len(in.Objects)))
+		}
 	}
 	if in.Sun != nil {
 		how = append(how, "the sun's disc in the frame")
@@ -90,7 +94,11 @@ func determine(in Input) Result {
 	}
 	how = how[:0]
 	if len(in.GroundLines) > 0 {
-		how = append(how, plural(len(in.GroundLines), "ground line", "ground lines")+" of known bearing")
+		if len(in.GroundLines) == 1 {
+			how = append(how, "a ground line of known bearing")
+		} else {
+			how = append(how, fmt.Sprintf("%d ground lines of known bearing", len(in.GroundLines)))
+		}
 	}
 	if h := in.Heading; h != nil {
 		src := "the camera's heading"
