@@ -251,7 +251,8 @@ func (x *Examiner) Apply(p CameraPhoto, f *Finding) {
 	}
 	mp := cam.Model.Photos[p.k]
 	if r, ok := cam.resetAfter[p.k]; ok {
-		f.Explanation += " " + resetSentence(cam.Model.Resets[r])
+		// Said last, after any explanation the camera's model writes.
+		defer func() { f.Explanation += " " + resetSentence(cam.Model.Resets[r]) }()
 	}
 	if mp.Factory {
 		f.check(Check{Kind: KindCameraClock, Status: Conflicts,
@@ -263,8 +264,12 @@ func (x *Examiner) Apply(p CameraPhoto, f *Finding) {
 	seg := cam.Model.Segments[mp.Segment]
 	switch {
 	case hasTimeEvidence(f) && mp.Others < clock.MinOthers:
-		f.check(Check{Kind: KindCameraClock, Status: Open,
-			Sentence: fmt.Sprintf("Only %s of this camera share its clock setting and have a time witness: too few to test this photo against.", otherPhotos(mp.Others))})
+		c := Check{Kind: KindCameraClock, Status: Open,
+			Sentence: fmt.Sprintf("Only %s of this camera share its clock setting and have a time witness: too few to test this photo against.", otherPhotos(mp.Others))}
+		if mp.Others == 0 {
+			c.Sentence = "No other photo of this camera shares its clock setting and has a time witness: nothing to test this photo against."
+		}
+		f.check(c)
 	case hasTimeEvidence(f) && mp.Outlier:
 		f.check(Check{Kind: KindCameraClock, Status: Conflicts, Figure: mp.ResidualSec, HasFigure: true, Unit: "s",
 			Sentence: fmt.Sprintf("This photo's time differs from its camera's other %d photos with a time witness by %s, beyond the camera's fitted clock: a possible edit of the timestamp, or a wrong measurement. A flag for review, not a finding of edit.", mp.Others, signedDuration(mp.ResidualSec))})
