@@ -81,23 +81,17 @@ func Inputs(args []string) ([]Input, error) {
 	var errs []error
 	seen := map[string]int{} // real path → index in ins
 	for _, a := range args {
-		abs, err := filepath.Abs(a)
-		if err == nil {
-			var st os.FileInfo
-			if st, err = os.Stat(abs); err == nil {
-				var real string
-				if real, err = filepath.EvalSymlinks(abs); err == nil {
-					if i, ok := seen[real]; ok {
-						ins[i].Same = append(ins[i].Same, a)
-					} else {
-						seen[real] = len(ins)
-						ins = append(ins, Input{Arg: a, Abs: abs, Real: real, IsDir: st.IsDir()})
-					}
-					continue
-				}
-			}
+		in, err := resolveInput(a)
+		if err != nil {
+			errs = append(errs, fmt.Errorf("input %q: %w", a, unwrapPath(err)))
+			continue
 		}
-		errs = append(errs, fmt.Errorf("input %q: %w", a, unwrapPath(err)))
+		if i, ok := seen[in.Real]; ok {
+			ins[i].Same = append(ins[i].Same, a)
+			continue
+		}
+		seen[in.Real] = len(ins)
+		ins = append(ins, in)
 	}
 	for _, in := range ins {
 		for _, out := range ins {
@@ -108,6 +102,24 @@ func Inputs(args []string) ([]Input, error) {
 	}
 	label(ins)
 	return ins, errors.Join(errs...)
+}
+
+// resolveInput examines one argument: its absolute and real paths, and
+// whether it is a folder.
+func resolveInput(a string) (Input, error) {
+	abs, err := filepath.Abs(a)
+	if err != nil {
+		return Input{}, err
+	}
+	st, err := os.Stat(abs)
+	if err != nil {
+		return Input{}, err
+	}
+	real, err := filepath.EvalSymlinks(abs)
+	if err != nil {
+		return Input{}, err
+	}
+	return Input{Arg: a, Abs: abs, Real: real, IsDir: st.IsDir()}, nil
 }
 
 // unwrapPath drops the *fs.PathError wrapper, whose path repeats the
