@@ -21,7 +21,7 @@ import (
 func CSVColumns() []string { return slices.Clone(csvHeader) }
 
 var csvHeader = []string{
-	"path", "root", "sha256", "size", "container", "camera", "claimed_local", "claim_source",
+	"path", "root", "sha256", "size", "container", "camera", "camera_name", "claimed_local", "claim_source",
 	"zone", "claimed_utc", "lat", "lon", "sun_azimuth", "sun_altitude", "verdict",
 	"offset_s", "offset_low_s", "offset_high_s", "corrected_utc_earliest", "corrected_utc_latest",
 	"checks", "explanation", "error", "file_notes", "season_bands", "readings", "claim_notes",
@@ -84,7 +84,7 @@ func (s *csvSink) Photo(p *Photo) error {
 	s.row = append(s.row[:0],
 		NeutraliseCell(p.Path), NeutraliseCell(p.Root), NeutraliseCell(p.SHA256),
 		strconv.FormatInt(p.Size, 10),
-		NeutraliseCell(p.Container), NeutraliseCell(p.Camera), NeutraliseCell(p.ClaimedLocal),
+		NeutraliseCell(p.Container), NeutraliseCell(p.Camera), NeutraliseCell(p.CameraName), NeutraliseCell(p.ClaimedLocal),
 		NeutraliseCell(p.ClaimSource), NeutraliseCell(p.Zone), NeutraliseCell(p.ClaimedUTC),
 		csvFloat(p.Lat), csvFloat(p.Lon), az, alt,
 		NeutraliseCell(p.Verdict),

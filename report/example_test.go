@@ -58,7 +58,7 @@ func ExampleWriteCSV() {
 	var b bytes.Buffer
 	_ = report.WriteCSV(&b, exampleAudit())
 	row := strings.Split(strings.Split(b.String(), "\n")[1], ",")
-	fmt.Println(row[6], row[15]) // claimed_local, offset_s
+	fmt.Println(row[7], row[16]) // claimed_local, offset_s
 	// Output: '=1+1 -7200
 }
 
@@ -123,7 +123,7 @@ func ExampleVisible() {
 func ExampleCSVColumns() {
 	cols := report.CSVColumns()
 	fmt.Println(len(cols), cols[0], cols[len(cols)-1])
-	// Output: 31 path clock_reset
+	// Output: 32 path clock_reset
 }
 
 // A caller that produces photos one at a time, in report order, streams them

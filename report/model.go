@@ -78,7 +78,8 @@ type Photo struct {
 	SHA256       string   `json:"sha256"`
 	Size         int64    `json:"size"`
 	Container    string   `json:"container"`
-	Camera       string   `json:"camera"`        // camera id, as in Camera.ID; "" when unknown
+	Camera       string   `json:"camera"`        // camera id, as in Camera.ID (a stable machine key); "" when unknown
+	CameraName   string   `json:"camera_name"`   // the camera as written: "Brisa BR-10, serial BR10-2290"
 	ClaimedLocal string   `json:"claimed_local"` // the wall time as the camera wrote it, with sub-seconds
 	ClaimSource  string   `json:"claim_source"`  // which rule decided the claimed instant
 	Zone         string   `json:"zone"`          // IANA name of the place's zone
@@ -228,7 +229,8 @@ type Fix struct {
 // top-level figures are those of the segment with the most evidence;
 // Segments holds every segment between resets.
 type Camera struct {
-	ID          string   `json:"id"`
+	ID          string   `json:"id"`   // stable machine key: make|model|serial, case folded
+	Name        string   `json:"name"` // as the camera wrote them: "Brisa BR-10, serial BR10-2290"
 	Photos      int      `json:"photos"`
 	ClockZone   string   `json:"clock_zone"` // "UTC+01:00", or "the zone of each photo's offset tag"; "" when the witnesses do not decide it
 	OffsetS     *float64 `json:"offset_s"`

@@ -105,7 +105,8 @@ const sheetTimeTag = "sheet time"
 // what cannot be judged is said in the finding.
 func (x *Examiner) Examine(p Photo) Finding {
 	rec := p.Record
-	f := Finding{Path: p.Path, Camera: clock.CameraID(rec.Make, rec.Model, rec.BodySerialNumber)}
+	f := Finding{Path: p.Path, Camera: clock.CameraID(rec.Make, rec.Model, rec.BodySerialNumber),
+		CameraName: cameraName(rec.Make, rec.Model, rec.BodySerialNumber)}
 
 	wall, tag, wallErr := captureWall(rec)
 	f.Wall, f.WallTag = wall, tag

@@ -154,6 +154,9 @@ type Fix struct {
 type Finding struct {
 	Path   string
 	Camera string // camera id (clock.CameraID); "" when the file names none
+	// CameraName is the camera as a person reads it: make, model and serial
+	// as written ("Brisa BR-10, serial BR10-2290").
+	CameraName string
 
 	// Wall is the capture wall time used, and WallTag which tag it came from.
 	Wall    zone.Wall

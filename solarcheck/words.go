@@ -3,6 +3,8 @@ package solarcheck
 import (
 	"errors"
 	"math"
+	"strings"
+	"unicode"
 
 	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
 )
@@ -48,4 +50,33 @@ func claimProblem(err error) string {
 		return "the built-in time zone map could not be loaded"
 	}
 	return err.Error()
+}
+
+// cameraName is how a person reads a camera: make, model and serial as the
+// camera wrote them ("Brisa BR-10, serial BR10-2290"), with NUL padding and
+// runs of white space tidied and the make not repeated when the model
+// already starts with it ("Canon", "Canon EOS R5": "Canon EOS R5"). The
+// grouping key stays clock.CameraID; "" when make and model are empty.
+func cameraName(maker, model, serial string) string {
+	tidy := func(s string) string {
+		s = strings.Map(func(r rune) rune {
+			if r == 0 || unicode.IsSpace(r) {
+				return ' '
+			}
+			return r
+		}, s)
+		return strings.Join(strings.Fields(s), " ")
+	}
+	mk, md, sn := tidy(maker), tidy(model), tidy(serial)
+	name := strings.TrimSpace(mk + " " + md)
+	if mk != "" && strings.HasPrefix(strings.ToLower(md), strings.ToLower(mk)) {
+		name = md
+	}
+	if name == "" {
+		return ""
+	}
+	if sn != "" {
+		name += ", serial " + sn
+	}
+	return name
 }

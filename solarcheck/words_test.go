@@ -46,3 +46,21 @@ func TestClaimProblemWords(t *testing.T) {
 		}
 	}
 }
+
+// TestCameraName: the camera is shown as it wrote its make, model and
+// serial (issue 18: ids were shown lower-cased and joined by pipes); the
+// tags are EXIF Make, Model and BodySerialNumber (CIPA DC-008).
+func TestCameraName(t *testing.T) {
+	tests := []struct{ mk, md, sn, want string }{
+		{"Brisa", "BR-10", "BR10-2290", "Brisa BR-10, serial BR10-2290"},
+		{"Canon", "Canon EOS R5", "", "Canon EOS R5"},
+		{"NIKON CORPORATION\x00\x00", "NIKON Z 6\t", "", "NIKON CORPORATION NIKON Z 6"},
+		{"", "", "123", ""},
+		{"  Sorami ", "Q5", " Q5-77310 ", "Sorami Q5, serial Q5-77310"},
+	}
+	for _, tc := range tests {
+		if got := cameraName(tc.mk, tc.md, tc.sn); got != tc.want {
+			t.Errorf("cameraName(%q, %q, %q) = %q, want %q", tc.mk, tc.md, tc.sn, got, tc.want)
+		}
+	}
+}

@@ -167,6 +167,11 @@ func TestDemoPageSpeaksPlainly(t *testing.T) {
 			t.Errorf("the page shows the code %q outside its glossary: …%s…", c, body[max(0, i-80):min(len(body), i+80)])
 		}
 	}
+	// Cameras are shown as they wrote their names, not as the pipe-joined,
+	// case-folded machine id report.json keeps ("brisa|br-10|br10-2290").
+	if m := regexp.MustCompile(`\S*[a-z0-9]\|[a-z0-9]\S*`).FindString(body); m != "" {
+		t.Errorf("the page shows a camera id %q instead of the camera's name", m)
+	}
 	if g := text(glossary); !strings.Contains(g, string(zone.RulePlaceZone)) || !strings.Contains(g, "time zone looked up from the GPS position") {
 		t.Errorf("the glossary does not pair place_zone with its words:\n%s", g)
 	}

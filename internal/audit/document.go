@@ -63,7 +63,9 @@ func Head(res *Result, h Header) *report.Audit {
 		if c.Fitted {
 			a.Run.Counts.Cameras++
 		}
-		a.Cameras = append(a.Cameras, camera(c))
+		rc := camera(c)
+		rc.Name = res.cameraNames[c.ID]
+		a.Cameras = append(a.Cameras, rc)
 	}
 	return a
 }
@@ -115,6 +117,7 @@ func photo(e Entry, s *stored) report.Photo {
 		Size:        s.Size,
 		Container:   s.Container,
 		Camera:      f.Camera,
+		CameraName:  f.CameraName,
 		ZoneOptions: []string{},
 		Checks:      []report.Check{},
 		Rejected:    []report.Alternative{},

@@ -67,6 +67,9 @@ type Result struct {
 	// SheetProblems are the sheet's errors as "file:line:column: reason",
 	// including rows naming no photo of the audit.
 	SheetProblems []string
+	// cameraNames gives each camera id the name its first photo wrote
+	// ("Brisa BR-10, serial BR10-2290"), for report.Camera.Name.
+	cameraNames map[string]string
 
 	entries []Entry // as the walk gave them
 	// order is the report order: order[k] is the index in entries of the
@@ -118,7 +121,7 @@ func Run(ctx context.Context, entries []Entry, o Options) (res *Result, err erro
 			sp.remove()
 		}
 	}()
-	res = &Result{entries: entries, order: reportOrder(entries), SheetProblems: problems, x: o.Examiner, spool: sp}
+	res = &Result{entries: entries, order: reportOrder(entries), SheetProblems: problems, x: o.Examiner, spool: sp, cameraNames: map[string]string{}}
 
 	var clocks []solarcheck.ClockInput
 	cameraIDs := map[string]string{} // one copy of each camera id, not one per photo
@@ -133,6 +136,11 @@ func Run(ctx context.Context, entries []Entry, o Options) (res *Result, err erro
 		},
 		func(k int, s stored) error {
 			s.Clock = -1
+			if id := s.Finding.Camera; id != "" {
+				if _, seen := res.cameraNames[id]; !seen {
+					res.cameraNames[id] = s.Finding.CameraName
+				}
+			}
 			if in, ok := o.Examiner.ClockInput(&s.Finding); ok {
 				if id, seen := cameraIDs[in.Camera]; seen {
 					in.Camera = id
