@@ -103,6 +103,7 @@ type record struct {
 	Clock                               int
 
 	Path, Camera   string
+	CameraName     string
 	Wall           zone.Wall
 	WallTag        string
 	Claim          zone.Claimed
@@ -137,7 +138,7 @@ func recordOf(s *stored) record {
 	return record{
 		SHA256: s.SHA256, Container: s.Container, Error: s.Error, Thumbnail: s.Thumbnail,
 		Size: s.Size, Notes: s.Notes, Clock: s.Clock,
-		Path: f.Path, Camera: f.Camera, Wall: f.Wall, WallTag: f.WallTag,
+		Path: f.Path, Camera: f.Camera, CameraName: f.CameraName, Wall: f.Wall, WallTag: f.WallTag,
 		Claim: f.Claim, Claimed: f.Claimed, HasClaimed: f.HasClaimed, Readings: f.Readings, ReadingUsed: f.ReadingUsed,
 		LatDeg: f.LatDeg, LonDeg: f.LonDeg, HasPlace: f.HasPlace, PlaceSource: f.PlaceSource,
 		ElevationM: f.ElevationM, PlaceZones: f.PlaceZones, GPSRejected: f.GPSRejected,
@@ -154,7 +155,7 @@ func (r *record) stored() stored {
 		SHA256: r.SHA256, Container: r.Container, Error: r.Error, Thumbnail: r.Thumbnail,
 		Size: r.Size, Notes: r.Notes, Clock: r.Clock,
 		Finding: solarcheck.Finding{
-			Path: r.Path, Camera: r.Camera, Wall: r.Wall, WallTag: r.WallTag,
+			Path: r.Path, Camera: r.Camera, CameraName: r.CameraName, Wall: r.Wall, WallTag: r.WallTag,
 			Claim: r.Claim, Claimed: r.Claimed, HasClaimed: r.HasClaimed, Readings: r.Readings, ReadingUsed: r.ReadingUsed,
 			LatDeg: r.LatDeg, LonDeg: r.LonDeg, HasPlace: r.HasPlace, PlaceSource: r.PlaceSource,
 			ElevationM: r.ElevationM, PlaceZones: r.PlaceZones, GPSRejected: r.GPSRejected,
