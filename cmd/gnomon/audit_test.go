@@ -2,7 +2,6 @@ package main
 
 import (
 	"bytes"
-	"encoding/binary"
 	"encoding/json"
 	"os"
 	"path/filepath"
@@ -10,7 +9,6 @@ import (
 	"testing"
 
 	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
-	"github.com/gnomon-forensics/gnomon/internal/exifwrite/fixtures"
 )
 
 // makeEvidence writes a small evidence folder: photos made with our EXIF
@@ -28,17 +26,7 @@ func makeEvidence(t *testing.T) string {
 		"sub/IMG_0002.jpg": {Make: "Acme", Model: "One", DateTimeOriginal: "2026:06:20 15:40:00"},
 	}
 	for name, ph := range photos {
-		payload, err := ph.Payload(binary.BigEndian).Bytes()
-		if err != nil {
-			t.Fatal(err)
-		}
-		b, err := exifwrite.JPEG(payload, fixtures.BaseJPEG, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if err := os.WriteFile(filepath.Join(dir, name), b, 0o644); err != nil {
-			t.Fatal(err)
-		}
+		writeJPEG(t, filepath.Join(dir, name), ph)
 	}
 	if err := os.WriteFile(filepath.Join(dir, "notes.txt"), []byte("=HYPERLINK(\"x\")\n"), 0o644); err != nil {
 		t.Fatal(err)

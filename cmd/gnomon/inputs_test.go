@@ -12,14 +12,21 @@ import (
 	"github.com/gnomon-forensics/gnomon/internal/exifwrite/fixtures"
 )
 
-// writePhoto writes a JPEG with a capture time and, when lat/lon are not
-// both zero, a GPS position, creating its folders.
+// writePhoto writes a JPEG by Acme One with a capture time and, when lat/lon
+// are not both zero, a GPS position.
 func writePhoto(t *testing.T, p string, wall string, lat, lon float64) {
 	t.Helper()
 	ph := exifwrite.Photo{Make: "Acme", Model: "One", DateTimeOriginal: wall, OffsetTimeOriginal: "+02:00"}
 	if lat != 0 || lon != 0 {
 		ph.GPS = &exifwrite.GPS{LatDeg: lat, LonDeg: lon}
 	}
+	writeJPEG(t, p, ph)
+}
+
+// writeJPEG writes a small JPEG carrying ph's EXIF at p, creating its
+// folders.
+func writeJPEG(t *testing.T, p string, ph exifwrite.Photo) {
+	t.Helper()
 	payload, err := ph.Payload(binary.BigEndian).Bytes()
 	if err != nil {
 		t.Fatal(err)
