@@ -35,12 +35,12 @@ func runMeta(e env, args []string) int {
 	if fs.NArg() == 0 {
 		return usageErr(fs, "no FILE or DIR given")
 	}
-	ins, err := audit.Inputs(fs.Args())
-	if errors.Is(err, audit.ErrNestedInput) {
-		return usageErr(fs, "%v", err)
+	ins, inErr := audit.Inputs(fs.Args())
+	if errors.Is(inErr, audit.ErrNestedInput) {
+		return usageErr(fs, "%v", inErr)
 	}
-	if err != nil {
-		for _, line := range strings.Split(err.Error(), "\n") {
+	if inErr != nil {
+		for _, line := range strings.Split(inErr.Error(), "\n") {
 			fmt.Fprintf(e.stderr, "gnomon meta: %s\n", line)
 		}
 	}
@@ -83,7 +83,7 @@ func runMeta(e env, args []string) int {
 			return exitOK
 		}
 	}
-	if len(recs) == 0 && err != nil {
+	if len(recs) == 0 && inErr != nil {
 		return exitFailure // the missing inputs are named above
 	}
 	return fail(e.stderr, "meta", errors.New("no file could be read"))
