@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math"
 	"math/rand/v2"
+	"reflect"
 	"strings"
 	"testing"
 )
@@ -126,5 +127,23 @@ func TestInvalidInput(t *testing.T) {
 		if _, err := Solve(in); !errors.Is(err, ErrInvalid) {
 			t.Errorf("%s: %v, want ErrInvalid", tc.name, err)
 		}
+	}
+}
+
+// TestRerunIdentical: the Monte Carlo is seeded, so a rerun gives the very
+// same result, bit for bit.
+func TestRerunIdentical(t *testing.T) {
+	_, scenes := loadScenes(t)
+	in := scenes[1].input(combo{objects: 2, horizon: true, ground: true}, noise{px: 1.5, focalFrac: 0.03, bearingDeg: 1})
+	a, err := Solve(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, _ := Solve(in)
+	if !reflect.DeepEqual(a, b) {
+		t.Errorf("reruns differ:\n%+v\n%+v", a, b)
+	}
+	if a.Draws != Draws {
+		t.Errorf("%d of %d draws converged", a.Draws, Draws)
 	}
 }
