@@ -25,6 +25,8 @@ type scene struct {
 	glBearing                            float64
 	sun                                  *Point
 	rot                                  map[int]Point // object 3's tip, its shadow turned by 10, 20, 40°
+	slopeTip                             *Point        // object 3's tip on ground sloping 2°
+	leanTop, leanTip                     *Point        // object 3 leaning 2°
 }
 
 const scenesFile = "testdata/scenes_opencv.csv"
@@ -93,6 +95,13 @@ func loadScenes(t testing.TB) (header string, scenes []scene) {
 			if row[fmt.Sprintf("o3_rot%d_sx", d)] != "" {
 				s.rot[d] = pt(fmt.Sprintf("o3_rot%d_s", d))
 			}
+		}
+		if p := pair("o3_lean2_t", "o3_lean2_s"); p != nil {
+			s.leanTop, s.leanTip = &p[0], &p[1]
+		}
+		if row["o3_slope2_sx"] != "" {
+			p := pt("o3_slope2_s")
+			s.slopeTip = &p
 		}
 		scenes = append(scenes, s)
 	}

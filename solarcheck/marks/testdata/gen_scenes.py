@@ -30,6 +30,7 @@ import cv2
 import numpy as np
 
 rng = np.random.default_rng(20261202)
+rng2 = np.random.default_rng(20261203)  # slope and lean directions only
 DIAG35 = math.hypot(36.0, 24.0)  # diagonal of the 36 x 24 mm frame
 
 # (width, height, f35 mm): phones (ultra-wide to tele) and cameras.
@@ -118,7 +119,7 @@ def scene(kind):
             img, depth = project([B, T, S], R, t, K)
             if inside(img, depth, w, h):
                 objs.append(img)
-                objs3d.append((B, S))
+                objs3d.append((B, S, ho))
                 bearings.append(b)
         if len(objs) < 3:
             continue
@@ -127,7 +128,7 @@ def scene(kind):
                 row[f"o{i+1}_{name}x"], row[f"o{i+1}_{name}y"] = p
         # A pasted third object: its shadow turned about its base on the
         # ground by 10, 20 and 40 degrees (one random sense per scene).
-        B3, S3 = objs3d[2]
+        B3, S3, ho3 = objs3d[2]
         sense = rng.choice([-1.0, 1.0])
         for rot in (10, 20, 40):
             a = math.radians(sense * rot)
@@ -136,6 +137,25 @@ def scene(kind):
             img, depth = project([B3 + d], R, t, K)
             if depth[0] > 0:
                 row[f"o3_rot{rot}_sx"], row[f"o3_rot{rot}_sy"] = img[0]
+        # The third object again, its shadow falling on ground that slopes
+        # 2 degrees, and leaning 2 degrees on level ground: the other causes
+        # the lighting check names. Their directions come from a second
+        # generator, so that every other value is as before.
+        T3 = B3 + [0, 0, ho3]
+        tilt = math.tan(math.radians(2))
+        fall = horiz(rng2.uniform(0, 360))
+        # Ground through B3 falling toward `fall`: z = -tilt * ((X - B3) . fall);
+        # the ray T3 - t*sun meets it where ho3 - t*sun_z = t*tilt*(sun . fall).
+        tt = ho3 / (sun[2] + tilt * sun.dot(fall))
+        img, depth = project([T3 - tt * sun], R, t, K)
+        if tt > 0 and depth[0] > 0:
+            row["o3_slope2_sx"], row["o3_slope2_sy"] = img[0]
+        lean = horiz(rng2.uniform(0, 360))
+        TL = B3 + ho3 * (math.sin(math.radians(2)) * lean + [0, 0, math.cos(math.radians(2))])
+        SL = TL - TL[2] / sun[2] * sun
+        img, depth = project([TL, SL], R, t, K)
+        if np.all(depth > 0):
+            row["o3_lean2_tx"], row["o3_lean2_ty"], row["o3_lean2_sx"], row["o3_lean2_sy"] = img.ravel()
 
         for _ in range(3000):
             b = heading + rng.uniform(-0.9, 0.9) * hfov
@@ -177,7 +197,8 @@ COLS = (["scene", "kind", "width", "height", "f35", "f_px", "pitch", "roll", "he
         + [f"o{i}_{n}{c}" for i in (1, 2, 3) for n in "bts" for c in "xy"]
         + ["e_ax", "e_ay", "e_bx", "e_by", "dip", "hz_ax", "hz_ay", "hz_bx", "hz_by",
            "gl_ax", "gl_ay", "gl_bx", "gl_by", "gl_bearing", "sun_x", "sun_y"]
-        + [f"o3_rot{r}_s{c}" for r in (10, 20, 40) for c in "xy"])
+        + [f"o3_rot{r}_s{c}" for r in (10, 20, 40) for c in "xy"]
+        + ["o3_slope2_sx", "o3_slope2_sy", "o3_lean2_tx", "o3_lean2_ty", "o3_lean2_sx", "o3_lean2_sy"])
 
 rows = [scene("ground") for _ in range(100)]
 rows += [scene("sun_in_frame") for _ in range(16)]
