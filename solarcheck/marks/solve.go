@@ -49,13 +49,6 @@ const (
 // verticalLines counts the marks that give a vertical line.
 func (in Input) verticalLines() int { return len(in.Objects) + len(in.Edges) }
 
-func plural(n int, one, many string) string {
-	if n == 1 {
-		return "1 " + one
-	}
-	return fmt.Sprintf("%d %s", n, many)
-}
-
 // determine says, from the kinds of marks alone, which outputs they can
 // determine, and why not the others. It never assumes a level camera.
 func determine(in Input) Result {
@@ -63,9 +56,9 @@ func determine(in Input) Result {
 	nv := in.verticalLines()
 	switch {
 	case nv >= 2 && in.Horizon != nil:
-		res.Vertical = Vertical{Determined: true, How: "from " + plural(nv, "vertical line", "vertical lines") + " and the horizon"}
+		res.Vertical = Vertical{Determined: true, How: fmt.Sprintf("from %d vertical lines and the horizon", nv)}
 	case nv >= 2:
-		res.Vertical = Vertical{Determined: true, How: "from " + plural(nv, "vertical line", "vertical lines")}
+		res.Vertical = Vertical{Determined: true, How: fmt.Sprintf("from %d vertical lines", nv)}
 	case in.Horizon != nil:
 		res.Vertical = Vertical{Determined: true, How: "from the horizon"}
 	case nv == 1:
@@ -284,7 +277,6 @@ func (m *model) normalise(p []float64) {
 type estimate struct {
 	p        []float64
 	chi2     float64
-	dof      int
 	altDeg   float64
 	azDeg    float64 // true azimuth, when a bearing reference exists
 	altSD    float64
@@ -366,7 +358,6 @@ func run(in Input) (*estimate, *Refusal) {
 	}
 	obs := m.observed()
 	e := &estimate{p: p, chi2: chi2}
-	e.dof = len(obs) - m.n
 	u := upFromParams(p[0], p[1])
 	fr := newFrame(u)
 	e.pitchDeg, e.rollDeg = attitude(u)
