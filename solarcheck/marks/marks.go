@@ -36,6 +36,12 @@
 // and their shadows, truly vertical objects, an uncropped frame (a crop
 // moves the principal point). None of these is checked except through the
 // lighting consistency, which a slope or a leaning object also fails.
+// Geometry too weak to support an answer is refused with the reason (see
+// Refusal and the thresholds in solve.go); what the marks cannot determine
+// is "not determined" with the reason, never a default.
+//
+// The package is not yet called by the audit: the measurement sheet, the
+// report and the demo case are to use it in a later step.
 package marks
 
 import (
