@@ -30,6 +30,7 @@ var pageTemplate = template.Must(template.New("page").Funcs(template.FuncMap{
 	"offs":  offsetSpans,
 	"clock": cameraClockText,
 	"claim": claimSourceText,
+	"sheet": sheetText,
 	"kind":  checkKindText,
 	"stat":  checkStatusText,
 	"fig":   fmtFigure,
@@ -532,4 +533,39 @@ func fmtTick(sec float64) string {
 		}
 	}
 	return sign + strings.Join(parts, " ")
+}
+
+// sheetText describes what the examiner wrote for one measured object and
+// the north correction applied to it, so that a card shows the raw sheet
+// values beside the sun direction derived from them.
+func sheetText(m Measured) string {
+	v := m.Sheet
+	num := func(x float64) string { return figure.Number(x, 0, 1) }
+	var parts []string
+	if v.Bearing != nil {
+		what := "shadow bearing"
+		if v.Kind == "sighting" {
+			what = "sun bearing"
+		}
+		parts = append(parts, fmt.Sprintf("%s %s° from %s north (σ %s°)", what, num(*v.Bearing), v.North, num(v.BearingSD)))
+	}
+	if v.ShadowLength != nil && v.ObjectHeight != nil {
+		parts = append(parts, fmt.Sprintf("shadow length %s for height %s", strconv.FormatFloat(*v.ShadowLength, 'f', -1, 64), strconv.FormatFloat(*v.ObjectHeight, 'f', -1, 64)))
+	}
+	if v.SunAltitude != nil {
+		parts = append(parts, fmt.Sprintf("sun altitude %s°", num(*v.SunAltitude)))
+	}
+	switch {
+	case v.North == "magnetic" && v.Declination != nil:
+		parts = append(parts, fmt.Sprintf("declination %s° as given in the sheet", num(m.NorthCorrection)))
+	case v.North == "magnetic":
+		parts = append(parts, fmt.Sprintf("magnetic declination %s° ± %s° (World Magnetic Model 2025, 1σ, included in the σ below)",
+			figure.Number(m.NorthCorrection, m.NorthCorrectionSD, 2), figure.Uncertainty(m.NorthCorrectionSD)))
+	case v.North == "grid":
+		parts = append(parts, fmt.Sprintf("grid convergence %s°", figure.Number(m.NorthCorrection, 0, 2)))
+	}
+	if len(parts) == 0 {
+		return ""
+	}
+	return "sheet: " + strings.Join(parts, "; ")
 }

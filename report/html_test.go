@@ -166,3 +166,22 @@ func TestSkyGeometry(t *testing.T) {
 		}
 	}
 }
+
+// TestSheetText: a card shows the examiner's sheet values as written beside
+// the derived direction, with the magnetic declination applied and its
+// WMM2025 1-sigma error (issue 10). The figures are a hand-made row.
+func TestSheetText(t *testing.T) {
+	b, h, l := 212.0, 2.0, 3.1
+	m := Measured{Object: "pole", Sheet: SheetValues{Kind: "shadow", North: "magnetic", Bearing: &b, ObjectHeight: &h, ShadowLength: &l, BearingSD: 2},
+		NorthCorrection: -14.2961, NorthCorrectionSD: 0.3755}
+	got := sheetText(m)
+	for _, want := range []string{"shadow bearing 212.0° from magnetic north (σ 2.0°)", "shadow length 3.1 for height 2",
+		"magnetic declination −14.30° ± 0.38° (World Magnetic Model 2025, 1σ"} {
+		if !strings.Contains(got, want) {
+			t.Errorf("sheetText = %q, lacks %q", got, want)
+		}
+	}
+	if got := sheetText(Measured{}); got != "" {
+		t.Errorf("no sheet values: %q, want empty", got)
+	}
+}

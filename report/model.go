@@ -182,6 +182,30 @@ type Measured struct {
 	Altitude    float64 `json:"altitude"`
 	AltitudeSD  float64 `json:"altitude_sd"`
 	HasAltitude bool    `json:"has_altitude"`
+	// Sheet holds the examiner's values as written, beside the direction
+	// derived from them.
+	Sheet SheetValues `json:"sheet"`
+	// NorthCorrection is what was added to the sheet's bearings to make them
+	// true, in degrees: the magnetic declination (east positive) for
+	// magnetic bearings, the grid convergence for grid bearings, 0 for true
+	// ones. NorthCorrectionSD is its 1-sigma error (the WMM2025 error model
+	// for a modelled declination; 0 when the examiner gave it), already
+	// part of AzimuthSD.
+	NorthCorrection   float64 `json:"north_correction"`
+	NorthCorrectionSD float64 `json:"north_correction_sd"`
+}
+
+// SheetValues are one measurement-sheet row's values as the examiner wrote
+// them; nil where the row has none. Bearings are in the row's north.
+type SheetValues struct {
+	Kind         string   `json:"kind"`          // "shadow", "shadow_bearing" or "sighting"
+	North        string   `json:"north"`         // "true", "magnetic" or "grid"
+	Bearing      *float64 `json:"bearing"`       // the shadow's bearing, or the sighted sun azimuth
+	ObjectHeight *float64 `json:"object_height"` // any unit; only the ratio to the length counts
+	ShadowLength *float64 `json:"shadow_length"` // same unit as the height
+	SunAltitude  *float64 `json:"sun_altitude"`  // a sighted altitude
+	BearingSD    float64  `json:"bearing_sd"`    // 1-sigma, degrees
+	Declination  *float64 `json:"declination"`   // the examiner's own declination, if given
 }
 
 // Check is the result of one independent check on one photo.

@@ -143,6 +143,13 @@ type Direction struct {
 	AltitudeSDDeg float64
 	HasAltitude   bool
 	Correlation   float64
+	// Sheet is the examiner's row as written, so that a report shows the
+	// raw values beside the direction derived from them.
+	Sheet Measurement
+	// NorthCorrectionDeg is what was added to the sheet's bearings to make
+	// them true (the magnetic declination, or the grid convergence; 0 for
+	// true bearings), with its 1-sigma error, which is part of AzimuthSDDeg.
+	NorthCorrectionDeg, NorthCorrectionSDDeg float64
 }
 
 // Fix is a place on Earth with a 95 % radius.

@@ -18,12 +18,15 @@ import (
 // declination, a shadow the geometry refuses) are reported in problems.
 func directions(rows []Measurement, latDeg, lonDeg float64, hasPlace bool, at time.Time) (ds []Direction, problems []string) {
 	for _, r := range rows {
-		corr, err := bearingCorrection(r, latDeg, lonDeg, hasPlace, at)
+		corr, corrSD, err := bearingCorrection(r, latDeg, lonDeg, hasPlace, at)
 		if err != nil {
 			problems = append(problems, fmt.Sprintf("%s: %v", r.Source, err))
 			continue
 		}
-		d := Direction{Object: r.Object}
+		// The correction's own error (the magnetic model's) adds to the
+		// examiner's bearing error: independent, so in quadrature.
+		bearingSD := math.Hypot(r.BearingSDDeg, corrSD)
+		d := Direction{Object: r.Object, Sheet: r, NorthCorrectionDeg: corr, NorthCorrectionSDDeg: corrSD}
 		switch r.Kind {
 		case MeasureShadow:
 			est, err := shadow.Propagate(shadow.Shadow{
@@ -31,7 +34,7 @@ func directions(rows []Measurement, latDeg, lonDeg float64, hasPlace bool, at ti
 				Length:     r.ShadowLength,
 				BearingDeg: angle.Norm360(r.ShadowBearingDeg + corr),
 				Ground:     shadow.Ground{SlopeDeg: r.SlopeDeg, TowardDeg: angle.Norm360(r.SlopeTowardDeg + corr)},
-			}, shadow.Uncertainty{LengthSDPct: r.LengthSDPct, BearingSDDeg: r.BearingSDDeg})
+			}, shadow.Uncertainty{LengthSDPct: r.LengthSDPct, BearingSDDeg: bearingSD})
 			if err != nil {
 				problems = append(problems, fmt.Sprintf("%s: %v", r.Source, err))
 				continue
@@ -40,10 +43,10 @@ func directions(rows []Measurement, latDeg, lonDeg float64, hasPlace bool, at ti
 			d.AltitudeDeg, d.AltitudeSDDeg, d.HasAltitude = est.Sun.AltitudeDeg, est.AltitudeSDDeg, true
 			d.Correlation = est.Correlation
 		case MeasureShadowBearing:
-			d.AzimuthDeg, d.AzimuthSDDeg, d.HasAzimuth = angle.Norm360(r.ShadowBearingDeg+corr+180), r.BearingSDDeg, true
+			d.AzimuthDeg, d.AzimuthSDDeg, d.HasAzimuth = angle.Norm360(r.ShadowBearingDeg+corr+180), bearingSD, true
 		case MeasureSighting:
 			if r.SunAzimuthDeg != nil {
-				d.AzimuthDeg, d.AzimuthSDDeg, d.HasAzimuth = angle.Norm360(*r.SunAzimuthDeg+corr), r.BearingSDDeg, true
+				d.AzimuthDeg, d.AzimuthSDDeg, d.HasAzimuth = angle.Norm360(*r.SunAzimuthDeg+corr), bearingSD, true
 			}
 			if r.SunAltitudeDeg != nil {
 				// A sighted altitude is taken with the same 1-sigma as the bearing.
@@ -58,33 +61,36 @@ func directions(rows []Measurement, latDeg, lonDeg float64, hasPlace bool, at ti
 }
 
 // bearingCorrection is what to add to a bearing in the row's reference to
-// make it a true bearing: the magnetic declination (east positive) for
-// magnetic bearings, the grid convergence for grid bearings.
-func bearingCorrection(r Measurement, latDeg, lonDeg float64, hasPlace bool, at time.Time) (float64, error) {
+// make it a true bearing, with its 1-sigma error: the magnetic declination
+// (east positive) for magnetic bearings, with the WMM2025 error model's
+// uncertainty (geomag.DeclinationSDDeg) when the model gives it and none
+// when the examiner wrote it; the grid convergence for grid bearings (exact
+// for the projection, so no error).
+func bearingCorrection(r Measurement, latDeg, lonDeg float64, hasPlace bool, at time.Time) (corr, sd float64, err error) {
 	switch r.North {
 	case MagneticNorth:
 		if r.DeclinationDeg != nil {
-			return *r.DeclinationDeg, nil
+			return *r.DeclinationDeg, 0, nil
 		}
 		if !hasPlace {
-			return 0, fmt.Errorf("magnetic bearing needs a place for the declination, or a declination column")
+			return 0, 0, fmt.Errorf("magnetic bearing needs a place for the declination, or a declination column")
 		}
 		fld, err := geomag.At(latDeg, lonDeg, 0, at)
 		if err != nil {
-			return 0, fmt.Errorf("magnetic bearing: %w; give the declination in the sheet's declination column", err)
+			return 0, 0, fmt.Errorf("magnetic bearing: %w; give the declination in the sheet's declination column", err)
 		}
-		return fld.Main.DeclinationDeg, nil
+		return fld.Main.DeclinationDeg, geomag.DeclinationSDDeg(fld.Main.HnT), nil
 	case GridNorth:
 		if !hasPlace {
-			return 0, fmt.Errorf("grid bearing needs a place for the meridian convergence")
+			return 0, 0, fmt.Errorf("grid bearing needs a place for the meridian convergence")
 		}
 		conv, _, err := geomag.Convergence(latDeg, lonDeg)
 		if err != nil {
-			return 0, fmt.Errorf("grid bearing: %w", err)
+			return 0, 0, fmt.Errorf("grid bearing: %w", err)
 		}
-		return geomag.GridToTrue(0, conv), nil
+		return geomag.GridToTrue(0, conv), 0, nil
 	default:
-		return 0, nil
+		return 0, 0, nil
 	}
 }
 

@@ -212,6 +212,8 @@ func photo(e Entry, s *stored) report.Photo {
 		p.Measured = append(p.Measured, report.Measured{
 			Object: d.Object, Azimuth: round(d.AzimuthDeg, 3), AzimuthSD: round(d.AzimuthSDDeg, 3),
 			Altitude: round(d.AltitudeDeg, 3), AltitudeSD: round(d.AltitudeSDDeg, 3), HasAltitude: d.HasAltitude,
+			Sheet:           sheetValues(d.Sheet),
+			NorthCorrection: round(d.NorthCorrectionDeg, 3), NorthCorrectionSD: round(d.NorthCorrectionSDDeg, 3),
 		})
 	}
 	return p
@@ -377,4 +379,26 @@ func LateThumbnails(ctx context.Context, res *Result, workers int, read exifread
 		}
 	}
 	return nil
+}
+
+// sheetValues is the examiner's row as written, for the report.
+func sheetValues(m solarcheck.Measurement) report.SheetValues {
+	v := report.SheetValues{BearingSD: m.BearingSDDeg, Declination: m.DeclinationDeg}
+	switch m.North {
+	case solarcheck.MagneticNorth:
+		v.North = "magnetic"
+	case solarcheck.GridNorth:
+		v.North = "grid"
+	default:
+		v.North = "true"
+	}
+	switch m.Kind {
+	case solarcheck.MeasureShadow:
+		v.Kind, v.Bearing, v.ObjectHeight, v.ShadowLength = "shadow", ptr(m.ShadowBearingDeg), ptr(m.ObjectHeight), ptr(m.ShadowLength)
+	case solarcheck.MeasureShadowBearing:
+		v.Kind, v.Bearing = "shadow_bearing", ptr(m.ShadowBearingDeg)
+	case solarcheck.MeasureSighting:
+		v.Kind, v.Bearing, v.SunAltitude = "sighting", m.SunAzimuthDeg, m.SunAltitudeDeg
+	}
+	return v
 }
