@@ -99,15 +99,20 @@ type Photo struct {
 	Sun        *SunAt   `json:"sun"` // at the claimed moment and place
 	Checks     []Check  `json:"checks"`
 
-	Verdict              string        `json:"verdict"`
-	OffsetS              *float64      `json:"offset_s"` // claimed minus evidence
-	OffsetLowS           *float64      `json:"offset_low_s"`
-	OffsetHighS          *float64      `json:"offset_high_s"`
-	CorrectedUTCEarliest string        `json:"corrected_utc_earliest"`
-	CorrectedUTCLatest   string        `json:"corrected_utc_latest"`
-	Explanation          string        `json:"explanation"`
-	Rejected             []Alternative `json:"rejected_explanations"`
-	Error                string        `json:"error"` // why a file could not be read; "" when fine
+	Verdict              string   `json:"verdict"`
+	OffsetS              *float64 `json:"offset_s"` // claimed minus evidence
+	OffsetLowS           *float64 `json:"offset_low_s"`
+	OffsetHighS          *float64 `json:"offset_high_s"`
+	CorrectedUTCEarliest string   `json:"corrected_utc_earliest"`
+	CorrectedUTCLatest   string   `json:"corrected_utc_latest"`
+	// CorrectedLocalEarliest and CorrectedLocalLatest are the same window
+	// in the legal time of the place's zone (Zone), ISO 8601 with the
+	// offset; "" when the place or the window is unknown.
+	CorrectedLocalEarliest string        `json:"corrected_local_earliest"`
+	CorrectedLocalLatest   string        `json:"corrected_local_latest"`
+	Explanation            string        `json:"explanation"`
+	Rejected               []Alternative `json:"rejected_explanations"`
+	Error                  string        `json:"error"` // why a file could not be read; "" when fine
 	// FileNotes are what the reader noticed about the file that did not
 	// stop it: a name extension that does not fit the bytes (a renamed
 	// file), damage it read past. Each can matter to an examiner.

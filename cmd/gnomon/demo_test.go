@@ -9,6 +9,7 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/gnomon-forensics/gnomon/internal/democase"
 	"github.com/gnomon-forensics/gnomon/internal/figure"
@@ -51,6 +52,9 @@ func TestDemoFindsEveryPlantedFault(t *testing.T) {
 			OffsetS     *float64 `json:"offset_s"`
 			OffsetLowS  *float64 `json:"offset_low_s"`
 			OffsetHighS *float64 `json:"offset_high_s"`
+			Zone        string   `json:"zone"`
+			UTCEarliest string   `json:"corrected_utc_earliest"`
+			LocEarliest string   `json:"corrected_local_earliest"`
 			Checks      []struct {
 				Kind   string `json:"kind"`
 				Status string `json:"status"`
@@ -106,6 +110,25 @@ func TestDemoFindsEveryPlantedFault(t *testing.T) {
 		if want := fmt.Sprintf("%s (95 %% interval %s to %s", sec, low, high); !strings.Contains(p.Explanation, want) {
 			t.Errorf("%s: the card shows %q, the explanation says %q", p.Path, want, p.Explanation)
 		}
+	}
+	// Corrected times are also given in the legal time of the place: the
+	// same instant, at the offset New York keeps (UTC−4 in daylight time,
+	// UTC−5 in standard time: IANA tz database, America/New_York).
+	nLocal := 0
+	for _, p := range doc.Photos {
+		if p.UTCEarliest == "" || p.Zone != "America/New_York" {
+			continue
+		}
+		nLocal++
+		u, err1 := time.Parse(time.RFC3339Nano, p.UTCEarliest)
+		l, err2 := time.Parse(time.RFC3339Nano, p.LocEarliest)
+		_, off := l.Zone()
+		if err1 != nil || err2 != nil || !u.Equal(l) || (off != -4*3600 && off != -5*3600) {
+			t.Errorf("%s: corrected UTC %q but local %q", p.Path, p.UTCEarliest, p.LocEarliest)
+		}
+	}
+	if nLocal == 0 {
+		t.Error("no corrected time at a New York place to check")
 	}
 	outliers := map[string]bool{}
 	for _, cam := range doc.Cameras {

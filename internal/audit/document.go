@@ -95,6 +95,10 @@ func (r *Result) Photos(ctx context.Context, withSunPaths bool, fn func(p *repor
 				p.CameraDriftSPerDay, p.CameraDriftLowSPerDay, p.CameraDriftHighSPerDay = d.DriftSPerDay, d.DriftLowSPerDay, d.DriftHighSPerDay
 			}
 		}
+		if a, ok := r.x.Local(&s.Finding, s.Finding.Earliest); ok {
+			b, _ := r.x.Local(&s.Finding, s.Finding.Latest)
+			p.CorrectedLocalEarliest, p.CorrectedLocalLatest = localStamp(a), localStamp(b)
+		}
 		if t, ok := r.late[k]; ok {
 			p.Thumbnail = t
 		}
@@ -402,3 +406,7 @@ func sheetValues(m solarcheck.Measurement) report.SheetValues {
 	}
 	return v
 }
+
+// localStamp formats a local time as ISO 8601 with its UTC offset, to the
+// millisecond at most, as stamp does for UTC.
+func localStamp(t time.Time) string { return t.Format("2006-01-02T15:04:05.999-07:00") }
