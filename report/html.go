@@ -62,7 +62,7 @@ var verdictStyles = []verdictStyle{
 	{"light_mismatch", "Light disagrees", "The exposure needs far more or less light than the sun gave then.", "v-light", "rays"},
 	{"ambiguous", "Two readings", "The wall time means more than one instant (an hour repeated or skipped by a clock change, or zones that overlap) and the evidence does not say which.", "v-none", "split"},
 	{"unverified", "Not testable", "Nothing independent was available to test the claim.", "v-none", "ring"},
-	{"unreadable", "Could not read", "The file could not be read; the reason is given.", "v-bad", "cross"},
+	{"unreadable", "Not read", "Files that could not be read as photos: damaged photos, and files of other kinds (text, video), each card saying which.", "v-bad", "cross"},
 	{"sidecar", "Read with its photo", "An XMP sidecar file: its contents are read with the photo it belongs to.", "v-none", "ring"},
 }
 
@@ -315,7 +315,7 @@ func (s *htmlSink) page() (htmlPage, error) {
 	}
 	pg.Cards = func(yield func(cardView) bool) {
 		for _, c := range s.cards {
-			if !yield(cardView{P: c.p, Index: c.index, Style: verdictStyleOf(c.p.Verdict),
+			if !yield(cardView{P: c.p, Index: c.index, Style: cardStyle(&c.p),
 				Thumb: safeThumb(c.p.Thumbnail), Sky: buildSky(c.p)}) {
 				return
 			}
@@ -568,4 +568,32 @@ func sheetText(m Measured) string {
 		return ""
 	}
 	return "sheet: " + strings.Join(parts, "; ")
+}
+
+// cardStyle is a photo's verdict style, with the label of an unreadable
+// item saying what it is (issue 18): a damaged photo is evidence that
+// should have been readable; a text file or a video is not a photo at all.
+// The kind comes from the container found in the bytes and, when the bytes
+// are no image, from the name's extension.
+func cardStyle(p *Photo) verdictStyle {
+	st := verdictStyleOf(p.Verdict)
+	if p.Verdict != "unreadable" {
+		return st
+	}
+	ext := strings.ToLower(path.Ext(p.Path))
+	switch {
+	case p.Container != "" && p.Container != "unknown":
+		st.Label = "Damaged photo"
+	case slices.Contains([]string{".jpg", ".jpeg", ".jpe", ".heic", ".heif", ".avif", ".png", ".webp", ".tif", ".tiff", ".dng", ".nef", ".cr2", ".cr3", ".arw", ".orf", ".rw2", ".pef", ".raf"}, ext):
+		st.Label = "Damaged photo: its bytes are no image"
+	case slices.Contains([]string{".mp4", ".mov", ".m4v", ".avi", ".mts", ".m2ts", ".3gp", ".mkv", ".webm"}, ext):
+		st.Label = "Not a photo: a video, not read yet"
+	case slices.Contains([]string{".txt", ".csv", ".md", ".log", ".json", ".xml", ".html", ".htm"}, ext):
+		st.Label = "Not a photo: a text file"
+	case slices.Contains([]string{".pdf", ".doc", ".docx", ".odt", ".rtf"}, ext):
+		st.Label = "Not a photo: a document"
+	default:
+		st.Label = "Not a photo, or of a kind this tool does not read"
+	}
+	return st
 }

@@ -185,3 +185,25 @@ func TestSheetText(t *testing.T) {
 		t.Errorf("no sheet values: %q, want empty", got)
 	}
 }
+
+// TestCardStyleSaysWhatAnItemIs: an unreadable item's card says whether it
+// is a damaged photo (evidence that should have been readable) or not a
+// photo at all (issue 18: both were "Could not read"). Extensions by common
+// practice (.mp4 and .mov are video containers, .txt is text).
+func TestCardStyleSaysWhatAnItemIs(t *testing.T) {
+	tests := []struct {
+		path, container, verdict, want string
+	}{
+		{"DCIM/IMG_0001.JPG", "jpeg", "unreadable", "Damaged photo"},
+		{"DCIM/IMG_0002.JPG", "unknown", "unreadable", "Damaged photo: its bytes are no image"},
+		{"DCIM/MVI_0003.MOV", "unknown", "unreadable", "Not a photo: a video, not read yet"},
+		{"notes.txt", "unknown", "unreadable", "Not a photo: a text file"},
+		{"DCIM/IMG_0004.JPG", "jpeg", "consistent", "Sun agrees"},
+	}
+	for _, tc := range tests {
+		p := Photo{Path: tc.path, Container: tc.container, Verdict: tc.verdict}
+		if got := cardStyle(&p).Label; got != tc.want {
+			t.Errorf("%s (%s, %s): %q, want %q", tc.path, tc.container, tc.verdict, got, tc.want)
+		}
+	}
+}
