@@ -195,6 +195,19 @@ func TestDemoPageSpeaksPlainly(t *testing.T) {
 	if m := regexp.MustCompile(`\S*[a-z0-9]\|[a-z0-9]\S*`).FindString(body); m != "" {
 		t.Errorf("the page shows a camera id %q instead of the camera's name", m)
 	}
+	// A picture of the page as a newcomer sees it, kept as an artifact.
+	artDir := os.Getenv("GNOMON_ARTIFACTS")
+	if artDir == "" {
+		artDir = t.TempDir()
+	} else if err := os.MkdirAll(artDir, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	shot := filepath.Join(artDir, "demo-report.png")
+	browsertest.Run(t, bin, filepath.Join(out, "report.html"), "--screenshot="+shot, "--window-size=1280,6000", "--hide-scrollbars")
+	if st, err := os.Stat(shot); err != nil || st.Size() == 0 {
+		t.Errorf("no screenshot of the demo page: %v", err)
+	}
+	t.Logf("screenshot: %s", shot)
 	if g := text(glossary); !strings.Contains(g, string(zone.RulePlaceZone)) || !strings.Contains(g, "time zone looked up from the GPS position") {
 		t.Errorf("the glossary does not pair place_zone with its words:\n%s", g)
 	}

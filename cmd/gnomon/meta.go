@@ -11,6 +11,7 @@ import (
 
 	"github.com/gnomon-forensics/gnomon/exifread"
 	"github.com/gnomon-forensics/gnomon/internal/audit"
+	"github.com/gnomon-forensics/gnomon/internal/figure"
 	"github.com/gnomon-forensics/gnomon/report"
 )
 
@@ -158,7 +159,7 @@ func printRecord(w io.Writer, r *exifread.Record) {
 		line("pixels", fmt.Sprintf("%d x %d", r.PixelWidth, r.PixelHeight))
 	}
 	if r.ExposureTimeSec != nil {
-		line("exposure time", fmt.Sprintf("%g s", *r.ExposureTimeSec))
+		line("exposure time", figure.Exposure(*r.ExposureTimeSec)) // "1/60 s", as photographers write it
 	}
 	if r.FNumber != nil {
 		line("f-number", fmt.Sprintf("f/%g", *r.FNumber))
