@@ -146,7 +146,7 @@ func checksCell(cs []Check) string {
 		var in []string
 		if c.Figure != nil {
 			// Rounded by the rule of the HTML card (package figure).
-			fig := figure.Decimal(*c.Figure, 0, 2)
+			fig := figure.Decimal(*c.Figure, 0, plainDecimals(*c.Figure))
 			if c.Uncertainty != nil {
 				fig = figure.Decimal(*c.Figure, *c.Uncertainty, 2) + "±" + figure.Uncertainty(*c.Uncertainty)
 			}

@@ -473,7 +473,7 @@ func fmtFigure(x, u *float64) string {
 		return "—"
 	}
 	if u == nil {
-		return figure.Number(*x, 0, 2)
+		return figure.Number(*x, 0, plainDecimals(*x))
 	}
 	return figure.Number(*x, *u, 2)
 }
@@ -596,4 +596,14 @@ func cardStyle(p *Photo) verdictStyle {
 		st.Label = "Not a photo, or of a kind this tool does not read"
 	}
 	return st
+}
+
+// plainDecimals is how many decimals a figure with no uncertainty shows:
+// none for a whole number (a file number, a count: "1234", not "1234.00"),
+// else two.
+func plainDecimals(x float64) int {
+	if x == math.Trunc(x) && math.Abs(x) < 1e15 {
+		return 0
+	}
+	return 2
 }

@@ -207,3 +207,20 @@ func TestCardStyleSaysWhatAnItemIs(t *testing.T) {
 		}
 	}
 }
+
+// TestFigureWholeNumbers: a figure with no uncertainty that is a whole
+// number (the shot-order check's file number) is written as an integer
+// (issue 10: "file numbers as integers"), in the card and in the CSV.
+func TestFigureWholeNumbers(t *testing.T) {
+	n := 1234.0
+	if got := fmtFigure(&n, nil); got != "1234" {
+		t.Errorf("card: %q, want 1234", got)
+	}
+	if got := checksCell([]Check{{Kind: "shot_order", Status: "conflicts", Figure: &n, Unit: "file number"}}); got != "shot_order=conflicts(1234 file number)" {
+		t.Errorf("csv: %q", got)
+	}
+	x := 2.345
+	if got := fmtFigure(&x, nil); got != "2.35" {
+		t.Errorf("card: %q, want 2.35 (two decimals without an uncertainty)", got)
+	}
+}
