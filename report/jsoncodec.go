@@ -31,8 +31,12 @@ type jsonForm struct {
 	fields []formField  // for structs: the members, in order
 	elem   *jsonForm    // for pointers, slices, arrays and maps
 	same   bool         // t is the Go type itself: the value is used as it is
-	kind   reflect.Kind // of the Go type
-	goType reflect.Type // the Go type
+	// nullFloat: a float or *float member written as *float64, nil when
+	// absent or not finite; cheaper than jsonNum's MarshalJSON, which
+	// encoding/json calls and re-validates for every number.
+	nullFloat bool
+	kind      reflect.Kind // of the Go type
+	goType    reflect.Type // the Go type
 }
 
 // formField is one struct member and its sibling.
@@ -76,6 +80,7 @@ var (
 	marshalerType  = reflect.TypeFor[json.Marshaler]()
 	jsonNumType    = reflect.TypeFor[jsonNum]()
 	stringPtrType  = reflect.TypeFor[*string]()
+	floatPtrType   = reflect.TypeFor[*float64]()
 	stringPtrsType = reflect.TypeFor[[]*string]()
 )
 
@@ -183,12 +188,16 @@ func (c *jsonCodec) structForm(f *jsonForm, t reflect.Type) error {
 		if name == "" {
 			name = sf.Name
 		}
+		omit := strings.Contains(","+opts+",", ",omitempty,")
 		ff, err := c.form(sf.Type)
 		if err != nil {
 			return fmt.Errorf("%s: %w", name, err)
 		}
-		fld := formField{index: i, out: len(out), name: name, form: ff,
-			omit: strings.Contains(","+opts+",", ",omitempty,")}
+		if isFloat(sf.Type) && !omit || sf.Type.Kind() == reflect.Pointer && isFloat(sf.Type.Elem()) {
+			// (omitempty on a plain float omits 0, which jsonNum keeps.)
+			ff = &jsonForm{goType: sf.Type, kind: sf.Type.Kind(), t: floatPtrType, nullFloat: true}
+		}
+		fld := formField{index: i, out: len(out), name: name, form: ff, omit: omit}
 		out = append(out, reflect.StructField{Name: fmt.Sprintf("F%d", len(out)), Type: ff.t, Tag: sf.Tag})
 		base := sf.Type
 		for base.Kind() == reflect.Pointer {
@@ -217,9 +226,23 @@ func (c *jsonCodec) structForm(f *jsonForm, t reflect.Type) error {
 	return nil
 }
 
+func isFloat(t reflect.Type) bool { return t.Kind() == reflect.Float32 || t.Kind() == reflect.Float64 }
+
 // to returns v (of f's Go type) in its sibling form.
 func (f *jsonForm) to(v reflect.Value) (reflect.Value, error) {
 	switch {
+	case f.nullFloat:
+		if v.Kind() == reflect.Pointer {
+			if v.IsNil() {
+				return reflect.Zero(floatPtrType), nil
+			}
+			v = v.Elem()
+		}
+		x := v.Float()
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return reflect.Zero(floatPtrType), nil
+		}
+		return reflect.ValueOf(&x), nil
 	case f.same:
 		return v, nil
 	case f.t == jsonNumType:
@@ -311,6 +334,17 @@ func (f *jsonForm) to(v reflect.Value) (reflect.Value, error) {
 // from sets dst (of f's Go type) from sv, its decoded sibling form.
 func (f *jsonForm) from(sv, dst reflect.Value) error {
 	switch {
+	case f.nullFloat:
+		switch {
+		case sv.IsNil():
+			dst.SetZero()
+		case dst.Kind() == reflect.Pointer:
+			dst.Set(reflect.New(dst.Type().Elem()))
+			dst.Elem().SetFloat(sv.Elem().Float())
+		default:
+			dst.SetFloat(sv.Elem().Float())
+		}
+		return nil
 	case f.same:
 		dst.Set(sv)
 		return nil
