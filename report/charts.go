@@ -2,6 +2,7 @@ package report
 
 import (
 	"fmt"
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"github.com/gnomon-forensics/gnomon/internal/figure"
 	"math"
 	"slices"
@@ -55,7 +56,7 @@ func skyRadius(altDeg float64) float64 {
 }
 
 func skyXY(azDeg, r float64) (float64, float64) {
-	a := azDeg * math.Pi / 180
+	a := angle.Rad(azDeg)
 	return skyC + r*math.Sin(a), skyC - r*math.Cos(a)
 }
 

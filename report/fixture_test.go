@@ -9,6 +9,8 @@ import (
 	"io"
 	"math"
 	"time"
+
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 )
 
 func fp(x float64) *float64 { return &x }
@@ -31,16 +33,15 @@ const (
 // time) used only to give the fixture's charts a plausible shape; it makes
 // no claim of accuracy and nothing is tested against it.
 func approxSun(t time.Time, latDeg, lonDeg float64) SunAt {
-	rad := math.Pi / 180
-	decl := 23.44 * math.Sin(2*math.Pi*(284+float64(t.YearDay()))/365) * rad
+	decl := angle.Rad(23.44 * math.Sin(2*math.Pi*(284+float64(t.YearDay()))/365))
 	hours := float64(t.Hour()) + float64(t.Minute())/60 + lonDeg/15
-	h := (hours - 12) * 15 * rad
-	lat := latDeg * rad
+	h := angle.Rad((hours - 12) * 15)
+	lat := angle.Rad(latDeg)
 	sinAlt := math.Sin(lat)*math.Sin(decl) + math.Cos(lat)*math.Cos(decl)*math.Cos(h)
 	alt := math.Asin(sinAlt)
 	az := math.Atan2(-math.Sin(h), math.Tan(decl)*math.Cos(lat)-math.Sin(lat)*math.Cos(h))
-	azDeg := math.Mod(az/rad+360, 360)
-	return SunAt{Time: t.UTC().Format(time.RFC3339), Azimuth: math.Round(azDeg*100) / 100, Altitude: math.Round(alt/rad*100) / 100}
+	azDeg := math.Mod(angle.Deg(az)+360, 360)
+	return SunAt{Time: t.UTC().Format(time.RFC3339), Azimuth: math.Round(azDeg*100) / 100, Altitude: math.Round(angle.Deg(alt)*100) / 100}
 }
 
 func sunDay(day time.Time, lat, lon float64) []SunAt {

@@ -315,7 +315,7 @@ func TestSunPathMatchesSPA(t *testing.T) {
 	o := spa.NewObserver(f.LatDeg, f.LonDeg, f.ElevationM)
 	for _, s := range path {
 		want := spa.At(s.Time, o, spa.DeltaT(s.Time))
-		if d := math.Abs(angle.Wrap180(s.AzimuthDeg-want.AzimuthDeg)) * math.Cos(want.AltitudeDeg*math.Pi/180); d > 1e-4 {
+		if d := math.Abs(angle.Wrap180(s.AzimuthDeg-want.AzimuthDeg)) * math.Cos(angle.Rad(want.AltitudeDeg)); d > 1e-4 {
 			t.Errorf("%v: azimuth %.6f, spa.At %.6f", s.Time, s.AzimuthDeg, want.AzimuthDeg)
 		}
 		if d := math.Abs(s.AltitudeDeg - want.AltitudeDeg); d > 1e-4 {

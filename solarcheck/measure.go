@@ -105,8 +105,8 @@ func combine(ds []Direction) (m invert.Measurement, spreadChi2 float64, dof int)
 	for _, d := range ds {
 		if d.HasAzimuth {
 			w := 1 / (d.AzimuthSDDeg * d.AzimuthSDDeg)
-			sx += w * math.Cos(d.AzimuthDeg*math.Pi/180)
-			sy += w * math.Sin(d.AzimuthDeg*math.Pi/180)
+			sx += w * math.Cos(angle.Rad(d.AzimuthDeg))
+			sy += w * math.Sin(angle.Rad(d.AzimuthDeg))
 			wAz += w
 			nAz++
 		}
@@ -122,7 +122,7 @@ func combine(ds []Direction) (m invert.Measurement, spreadChi2 float64, dof int)
 	}
 	if nAz > 0 {
 		m.HasAzimuth = true
-		m.AzimuthDeg = angle.Norm360(math.Atan2(sy, sx) * 180 / math.Pi)
+		m.AzimuthDeg = angle.Norm360(angle.Deg(math.Atan2(sy, sx)))
 		m.AzimuthSDDeg = 1 / math.Sqrt(wAz)
 	}
 	if nAlt > 0 {

@@ -7,6 +7,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
 )
 
@@ -65,7 +66,7 @@ func TestShadowsFitNoTime(t *testing.T) {
 	zurich := mustLoc(t, "Europe/Zurich")
 	truth := time.Date(2026, 6, 20, 11, 30, 0, 0, time.UTC)
 	p := scene{trueUTC: truth, wall: truth.In(zurich), lat: 46.2, lon: 6.15, shadows: 1}.photo(t, "a.jpg")
-	p.Measurements[0].ShadowLength = p.Measurements[0].ObjectHeight / math.Tan(80*math.Pi/180)
+	p.Measurements[0].ShadowLength = p.Measurements[0].ObjectHeight / math.Tan(angle.Rad(80))
 	f := x.Examine(p)
 	c, _ := f.Check(KindShadowTime)
 	if f.Verdict != Unverified || !f.Basis.ShadowMisfit || f.Offset != nil {

@@ -22,6 +22,7 @@ import (
 
 	"golang.org/x/image/draw"
 
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
 	"github.com/gnomon-forensics/gnomon/solarcheck/geomag"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
@@ -463,7 +464,7 @@ func gpsBlock(trueUTC time.Time, ps pose, site Site, r *rand.Rand) *exifwrite.GP
 	const mPerDegLat = 111_320.0
 	dn, de := normal(r)*2, normal(r)*2
 	lat := site.LatDeg + (ps.Y+dn)/mPerDegLat
-	lon := site.LonDeg + (ps.X+de)/(mPerDegLat*math.Cos(site.LatDeg*math.Pi/180))
+	lon := site.LonDeg + (ps.X+de)/(mPerDegLat*math.Cos(angle.Rad(site.LatDeg)))
 	cs := trueUTC.Second()*100 + trueUTC.Nanosecond()/1e7
 	heading := math.Mod(ps.HeadingDeg+360, 360)
 	return &exifwrite.GPS{

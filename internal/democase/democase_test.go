@@ -24,6 +24,7 @@ import (
 
 	"github.com/rwcarlsen/goexif/exif"
 
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"github.com/gnomon-forensics/gnomon/solarcheck/shadow"
 	"github.com/gnomon-forensics/gnomon/solarcheck/sheet"
 	"github.com/gnomon-forensics/gnomon/solarcheck/spa"
@@ -386,7 +387,7 @@ func TestSheetSPARoundTrip(t *testing.T) {
 			t.Errorf("spa round trip %s %s: bearing off the sun's azimuth + 180° by %.2f°, tolerance %.2f°", p.Path, r["object"], d, bearingTol)
 		}
 		h, l := num(t, r["object_height"]), num(t, r["shadow_length"])
-		trueL := h / math.Tan(sun.AltitudeDeg*math.Pi/180)
+		trueL := h / math.Tan(angle.Rad(sun.AltitudeDeg))
 		if math.Abs(l/trueL-1) > lengthTol {
 			t.Errorf("spa round trip %s %s: length %.2f m vs h/tan(alt) = %.2f m", p.Path, r["object"], l, trueL)
 		}
@@ -495,7 +496,7 @@ func TestPicturesShowTheShadows(t *testing.T) {
 					o = so
 				}
 			}
-			br := s.TrueBearingDeg * math.Pi / 180
+			br := angle.Rad(s.TrueBearingDeg)
 			sx, sy := math.Sin(br), math.Cos(br)
 			side := 0.35 + o.RadiusM
 			dark := 0
@@ -534,8 +535,8 @@ func TestRendererShadowLength(t *testing.T) {
 	m := sceneObjects[0]
 	for _, tc := range cases {
 		img := render(ps, sunState{sunny: true, azimuthDeg: tc.azDeg, altitudeDeg: tc.altDe}, "test")
-		l := m.HeightM / math.Tan(tc.altDe*math.Pi/180)
-		br := (tc.azDeg + 180) * math.Pi / 180
+		l := m.HeightM / math.Tan(angle.Rad(tc.altDe))
+		br := angle.Rad(tc.azDeg + 180)
 		at := func(f float64) float64 {
 			u, v, _, _ := cam.project(vec3{m.X + f*math.Sin(br), m.Y + f*math.Cos(br), 0})
 			c := img.RGBAAt(int(u), int(v))

@@ -10,6 +10,8 @@ import (
 	"golang.org/x/image/font/basicfont"
 	"golang.org/x/image/math/fixed"
 	"golang.org/x/image/vector"
+
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 )
 
 // Image size of every demo photo, pixels.
@@ -34,11 +36,11 @@ type pose struct {
 
 // aim is the pose at (x, y, z) looking at the ground point (tx, ty).
 func aim(x, y, z, tx, ty, focalPx float64) pose {
-	h := math.Atan2(tx-x, ty-y) * 180 / math.Pi
+	h := angle.Deg(math.Atan2(tx-x, ty-y))
 	if h < 0 {
 		h += 360
 	}
-	return pose{X: x, Y: y, Z: z, HeadingDeg: h, PitchDeg: math.Atan2(z, math.Hypot(tx-x, ty-y)) * 180 / math.Pi, FocalPx: focalPx}
+	return pose{X: x, Y: y, Z: z, HeadingDeg: h, PitchDeg: angle.Deg(math.Atan2(z, math.Hypot(tx-x, ty-y))), FocalPx: focalPx}
 }
 
 type vec3 struct{ x, y, z float64 }
@@ -59,7 +61,7 @@ type camera struct {
 }
 
 func newCamera(ps pose, w, h int) camera {
-	psi, th := ps.HeadingDeg*math.Pi/180, ps.PitchDeg*math.Pi/180
+	psi, th := angle.Rad(ps.HeadingDeg), angle.Rad(ps.PitchDeg)
 	f := vec3{math.Sin(psi) * math.Cos(th), math.Cos(psi) * math.Cos(th), -math.Sin(th)}
 	r := vec3{math.Cos(psi), -math.Sin(psi), 0}
 	return camera{p: vec3{ps.X, ps.Y, ps.Z}, f: f, r: r, u: r.cross(f),
@@ -140,8 +142,8 @@ type sunState struct {
 // (sun azimuth + 180°) and the factor 1/tan(altitude) that turns a height
 // into a shadow length on level ground.
 func (s sunState) shadowDir() (sx, sy, perHeight float64) {
-	b := (s.azimuthDeg + 180) * math.Pi / 180
-	return math.Sin(b), math.Cos(b), 1 / math.Tan(s.altitudeDeg*math.Pi/180)
+	b := angle.Rad(s.azimuthDeg + 180)
+	return math.Sin(b), math.Cos(b), 1 / math.Tan(angle.Rad(s.altitudeDeg))
 }
 
 // segDist2 is the squared distance from p to the segment [a, b] in the plane.
@@ -191,7 +193,7 @@ func render(ps pose, sun sunState, caption string) *image.RGBA {
 	}
 
 	skyLow, skyHigh := color.RGBA{206, 224, 238, 255}, color.RGBA{72, 132, 204, 255}
-	light := 0.62 + 0.38*math.Sin(math.Max(sun.altitudeDeg, 0)*math.Pi/180)
+	light := 0.62 + 0.38*math.Sin(angle.Rad(math.Max(sun.altitudeDeg, 0)))
 	if !sun.sunny {
 		skyLow, skyHigh = color.RGBA{188, 190, 194, 255}, color.RGBA{150, 154, 162, 255}
 		light = 0.72
@@ -204,7 +206,7 @@ func render(ps pose, sun sunState, caption string) *image.RGBA {
 			d := cam.ray(px, py)
 			var c color.RGBA
 			if d.z >= -1e-9 {
-				el := math.Atan2(d.z, math.Hypot(d.x, d.y)) * 180 / math.Pi
+				el := angle.Deg(math.Atan2(d.z, math.Hypot(d.x, d.y)))
 				c = lerp(skyLow, skyHigh, el/35)
 				img.SetRGBA(px, py, c)
 				continue

@@ -57,7 +57,7 @@ func measure(ps pose, sun sunState, spec cameraSpec, declDeg float64, r *rand.Ra
 		uu, vu, _, oku := cam.project(vec3{o.X, o.Y, o.HeightM})
 		if oku {
 			ax, ay, bx, by := ut-ub, vt-vb, uu-ub, vu-vb
-			if cos := (ax*bx + ay*by) / (math.Hypot(ax, ay) * math.Hypot(bx, by)); cos > math.Cos(30*math.Pi/180) {
+			if cos := (ax*bx + ay*by) / (math.Hypot(ax, ay) * math.Hypot(bx, by)); cos > math.Cos(angle.Rad(30)) {
 				continue
 			}
 		}
@@ -141,7 +141,7 @@ var shutterDens = []uint32{8000, 6400, 5000, 4000, 3200, 2500, 2000, 1600, 1250,
 // It returns the f-number, the time and the EV100 of the written settings.
 func exposureFor(altitudeDeg, fNumber float64, iso int) (float64, exifwrite.Rational, float64) {
 	alt := math.Max(altitudeDeg, 3)
-	lux := 130_000 * math.Pow(math.Sin(alt*math.Pi/180), 1.2)
+	lux := 130_000 * math.Pow(math.Sin(angle.Rad(alt)), 1.2)
 	ev100 := math.Log2(lux / 2.5)
 	evISO := ev100 + math.Log2(float64(iso)/100)
 	want := fNumber * fNumber / math.Pow(2, evISO)

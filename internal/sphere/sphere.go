@@ -4,7 +4,11 @@
 // uncertainties they are compared with.
 package sphere
 
-import "math"
+import (
+	"math"
+
+	"github.com/gnomon-forensics/gnomon/internal/angle"
+)
 
 // MeanRadiusKm is the mean radius of the Earth, R1 of the IUGG (Moritz,
 // Geodetic Reference System 1980): 6371.0088 km, used to 0.1 km.
@@ -15,9 +19,8 @@ const MeanRadiusKm = 6371.0
 // Haversine", Sky and Telescope 68(2), 1984), which stays accurate for
 // points close together.
 func DistanceKm(lat1, lon1, lat2, lon2 float64) float64 {
-	const deg = math.Pi / 180
-	s1 := math.Sin((lat2 - lat1) * deg / 2)
-	s2 := math.Sin((lon2 - lon1) * deg / 2)
-	h := s1*s1 + math.Cos(lat1*deg)*math.Cos(lat2*deg)*s2*s2
+	s1 := math.Sin(angle.Rad(lat2-lat1) / 2)
+	s2 := math.Sin(angle.Rad(lon2-lon1) / 2)
+	h := s1*s1 + math.Cos(angle.Rad(lat1))*math.Cos(angle.Rad(lat2))*s2*s2
 	return 2 * MeanRadiusKm * math.Asin(math.Min(1, math.Sqrt(h)))
 }

@@ -47,6 +47,8 @@ import (
 	"fmt"
 	"math"
 	"time"
+
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 )
 
 // coefficient is one row of the model: degree, order, g, h (nT at the epoch) and
@@ -149,8 +151,8 @@ func Compute(latDeg, lonDeg, heightKm, decimalYear float64) (Field, error) {
 	const poleGuard = 90 - 1e-9
 	latDeg = math.Max(-poleGuard, math.Min(poleGuard, latDeg))
 
-	phi := latDeg * math.Pi / 180
-	lambda := lonDeg * math.Pi / 180
+	phi := angle.Rad(latDeg)
+	lambda := angle.Rad(lonDeg)
 
 	// Eq. (7) [step 1]: geodetic to geocentric spherical coordinates on WGS84.
 	// Rc is the radius of curvature in the prime vertical.
@@ -214,11 +216,10 @@ func Compute(latDeg, lonDeg, heightKm, decimalYear float64) (Field, error) {
 	// Eq. (19) [step 6]: the field elements H, F, I, D.
 	hh := math.Hypot(x, y)
 	ff := math.Hypot(hh, zz)
-	const deg = 180 / math.Pi
 	main := Elements{
 		XnT: x, YnT: y, ZnT: zz, HnT: hh, FnT: ff,
-		InclinationDeg: math.Atan2(zz, hh) * deg,
-		DeclinationDeg: math.Atan2(y, x) * deg,
+		InclinationDeg: angle.Deg(math.Atan2(zz, hh)),
+		DeclinationDeg: angle.Deg(math.Atan2(y, x)),
 	}
 	// Rates of H, F, I, D from those of X, Y, Z (the report's secular-variation
 	// formulas that follow Eq. (19)): Ḣ = (XẊ+YẎ)/H, Ḟ = (XẊ+YẎ+ZŻ)/F,
@@ -227,8 +228,8 @@ func Compute(latDeg, lonDeg, heightKm, decimalYear float64) (Field, error) {
 	rate := Elements{
 		XnT: xDot, YnT: yDot, ZnT: zDot, HnT: hDot,
 		FnT:            (x*xDot + y*yDot + zz*zDot) / ff,
-		InclinationDeg: (hh*zDot - zz*hDot) / (ff * ff) * deg,
-		DeclinationDeg: (x*yDot - y*xDot) / (hh * hh) * deg,
+		InclinationDeg: angle.Deg((hh*zDot - zz*hDot) / (ff * ff)),
+		DeclinationDeg: angle.Deg((x*yDot - y*xDot) / (hh * hh)),
 	}
 	// Grid variation, as the report defines it: GV = D − λ north of
 	// 55°N, D + λ south of 55°S, reduced to (−180°, 180°]; its rate is D's.

@@ -5,6 +5,8 @@ import (
 	"math"
 	"testing"
 	"time"
+
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 )
 
 // officialTestValue is one row of NOAA's WMM2025 test values (generated table).
@@ -143,7 +145,7 @@ func TestCompassZone(t *testing.T) {
 // P̆20 = (3 sin²φ' − 1)/2, P̆21 = √3 sin φ' cos φ', P̆22 = (√3/2) cos²φ').
 func TestLegendreLowDegree(t *testing.T) {
 	for _, latDeg := range []float64{-80, -33, 0, 12, 45, 89} {
-		phi := latDeg * math.Pi / 180
+		phi := angle.Rad(latDeg)
 		s, c := math.Sin(phi), math.Cos(phi)
 		P, dP := legendre(phi)
 		want := map[[2]int][2]float64{ // value, derivative d/dφ'

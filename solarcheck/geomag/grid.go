@@ -98,16 +98,15 @@ func Convergence(latDeg, lonDeg float64) (convergenceDeg float64, zone int, err 
 // exact convergence γ = atan(tan l · sin φ) of the transverse Mercator projection.
 // The ellipsoidal correction is below 0.0002° within a UTM zone.
 func ConvergenceFrom(latDeg, lonDeg, centralMeridianDeg float64) float64 {
-	const deg = math.Pi / 180
 	f := 1 / wgs84InvF
 	e2 := f * (2 - f)
 	ep2 := e2 / (1 - e2) // second eccentricity squared
-	phi := latDeg * deg
-	l := wrap180(lonDeg-centralMeridianDeg) * deg
+	phi := angle.Rad(latDeg)
+	l := angle.Rad(wrap180(lonDeg - centralMeridianDeg))
 	c := math.Cos(phi)
 	s := math.Sin(l)
 	c2, s2 := c*c, s*s
 	d := 1 - s2*c2
 	carg := 1 + c2*c2*s2/d*ep2*(1+c2/(3*d*d)*(2-s2*(c2*((4*c2-1)*s2-9)+8))*ep2)
-	return math.Atan2(math.Sin(phi)*s*carg, math.Cos(l)) / deg
+	return angle.Deg(math.Atan2(math.Sin(phi)*s*carg, math.Cos(l)))
 }

@@ -8,6 +8,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 )
 
 // TestConvergenceAgainstPROJ compares Convergence with PROJ's meridian convergence
@@ -59,8 +61,8 @@ func TestConvergenceAgainstPROJ(t *testing.T) {
 func TestConvergenceSphere(t *testing.T) {
 	for _, lat := range []float64{-79, -45, -10, 0, 10, 30, 45, 60, 83} {
 		for _, dl := range []float64{-3, -1, 0.5, 2, 3} {
-			phi, l := lat*math.Pi/180, dl*math.Pi/180
-			sphere := math.Atan(math.Tan(l)*math.Sin(phi)) * 180 / math.Pi
+			phi, l := angle.Rad(lat), angle.Rad(dl)
+			sphere := angle.Deg(math.Atan(math.Tan(l) * math.Sin(phi)))
 			got := ConvergenceFrom(lat, 9+dl, 9)
 			if math.Abs(got-sphere) > 2e-4 {
 				t.Errorf("lat %v Δλ %v: %.6f vs sphere %.6f", lat, dl, got, sphere)

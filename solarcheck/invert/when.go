@@ -28,8 +28,6 @@ const FitLevel = 0.05
 // chisq.P95(ProfileDof) = 3.841, whatever the number of angles measured.
 const ProfileDof = 1
 
-const deg = math.Pi / 180
-
 // skySDDeg is σ_sky of the package doc: the uncertainty of the sun's
 // position itself, which makes azimuth meaningless near the zenith.
 const skySDDeg = 0.01
@@ -116,7 +114,7 @@ func (m Measurement) check() error {
 
 // chi2 is the misfit of a sun at (azDeg, altDeg) against m (package doc).
 func (m *Measurement) chi2(azDeg, altDeg float64) float64 {
-	return m.chi2c(azDeg, altDeg, math.Cos(altDeg*deg))
+	return m.chi2c(azDeg, altDeg, math.Cos(angle.Rad(altDeg)))
 }
 
 // chi2c is chi2 with the cosine of the altitude supplied by the caller.
@@ -254,7 +252,7 @@ func When(q Query) (Result, error) {
 		s.fitThr = max(s.fitThr, q.MaxMisfit)
 		listed = func(w Window) bool { return w.Misfit < q.MaxMisfit }
 	}
-	s.sinPhi, s.cosPhi = math.Sincos(o.LatDeg * deg)
+	s.sinPhi, s.cosPhi = math.Sincos(angle.Rad(o.LatDeg))
 	s.maxRefrDeg = max(0, spa.Refraction(-0.8333, o.PressureHPa, o.TemperatureC)) + 0.01
 	s.n = int(math.Ceil(s.spanS / gridStep.Seconds()))
 	if s.n < 1 {
@@ -307,13 +305,13 @@ func (s *searcher) gridS(k int) float64 {
 // refraction and without parallax.
 func (s *searcher) cheap(t float64) float64 {
 	ra, dec, sid := s.eph.RaDecSidereal(t)
-	sinH, cosH := math.Sincos((sid + s.o.LonDeg - ra) * deg)
-	sinD, cosD := math.Sincos(dec * deg)
-	alt0 := math.Asin(s.sinPhi*sinD+s.cosPhi*cosD*cosH) / deg
+	sinH, cosH := math.Sincos(angle.Rad(sid + s.o.LonDeg - ra))
+	sinD, cosD := math.Sincos(angle.Rad(dec))
+	alt0 := angle.Deg(math.Asin(s.sinPhi*sinD + s.cosPhi*cosD*cosH))
 	alt := alt0 + spa.Refraction(alt0, s.o.PressureHPa, s.o.TemperatureC)
 	var az float64
 	if s.m.HasAzimuth {
-		az = math.Atan2(sinH, cosH*s.sinPhi-sinD/cosD*s.cosPhi)/deg + 180 // SPA Eq. 45–46 without parallax
+		az = angle.Deg(math.Atan2(sinH, cosH*s.sinPhi-sinD/cosD*s.cosPhi)) + 180 // SPA Eq. 45–46 without parallax
 	}
 	return s.m.chi2(az, alt)
 }
@@ -392,9 +390,9 @@ const sunRateDegPerS = 15.05 / 3600
 func (s *searcher) blockBound(ta, tb float64) float64 {
 	alt := func(t float64) float64 {
 		ra, dec, sid := s.eph.RaDecSidereal(t)
-		sinD, cosD := math.Sincos(dec * deg)
-		cosH := math.Cos((sid + s.o.LonDeg - ra) * deg)
-		return math.Asin(max(-1, min(1, s.sinPhi*sinD+s.cosPhi*cosD*cosH))) / deg
+		sinD, cosD := math.Sincos(angle.Rad(dec))
+		cosH := math.Cos(angle.Rad(sid + s.o.LonDeg - ra))
+		return angle.Deg(math.Asin(max(-1, min(1, s.sinPhi*sinD+s.cosPhi*cosD*cosH))))
 	}
 	altA, altB := alt(ta), alt(tb)
 	half := sunRateDegPerS * (tb - ta) / 2
@@ -434,25 +432,25 @@ func (s *searcher) cheapBlock(kb, ke int, out []float64) {
 	hB := sidB + s.o.LonDeg - raB
 	ref := hA + (tb-ta)*spa.SiderealRateDegPerDay/86400
 	hB = ref + angle.Wrap180(hB-ref) // continue hA's turn, not a jump of 360°
-	sinDA, cosDA := math.Sincos(decA * deg)
-	sinDB, cosDB := math.Sincos(decB * deg)
+	sinDA, cosDA := math.Sincos(angle.Rad(decA))
+	sinDB, cosDB := math.Sincos(angle.Rad(decB))
 	steps := ke - kb
 	var dH, dSin, dCos float64
 	if steps > 0 {
-		dH = (hB - hA) / float64(steps) * deg
+		dH = angle.Rad((hB - hA) / float64(steps))
 		dSin, dCos = (sinDB-sinDA)/float64(steps), (cosDB-cosDA)/float64(steps)
 	}
 	rs, rc := math.Sincos(dH)
-	sinH, cosH := math.Sincos(hA * deg)
+	sinH, cosH := math.Sincos(angle.Rad(hA))
 	for j := 0; j <= steps; j++ {
 		sinD := sinDA + float64(j)*dSin
 		cosD := cosDA + float64(j)*dCos
 		x := sinPhi*sinD + cosPhi*cosD*cosH
-		alt0 := math.Asin(max(-1, min(1, x))) / deg
+		alt0 := angle.Deg(math.Asin(max(-1, min(1, x))))
 		alt := alt0 + spa.Refraction(alt0, p, tc)
 		var az float64
 		if s.m.HasAzimuth {
-			az = math.Atan2(sinH, cosH*sinPhi-sinD/cosD*cosPhi)/deg + 180 // SPA Eq. 45–46 without parallax
+			az = angle.Deg(math.Atan2(sinH, cosH*sinPhi-sinD/cosD*cosPhi)) + 180 // SPA Eq. 45–46 without parallax
 		}
 		out[j] = s.m.chi2c(az, alt, math.Sqrt(max(0, 1-x*x))) // cos of the airless altitude
 		sinH, cosH = sinH*rc+cosH*rs, cosH*rc-sinH*rs

@@ -93,8 +93,8 @@ func Where(q WhereQuery) ([]Fix, error) {
 	// 1 km step keeps that artefact below 0.5 % of the uncertainty.)
 	jac := func(lat, lon float64) mat2 {
 		const hKm = 1.0
-		dLat := hKm / earthRadiusKm / deg
-		dLon := dLat / math.Max(math.Cos(lat*deg), 1e-6)
+		dLat := angle.Deg(hKm / earthRadiusKm)
+		dLon := dLat / math.Max(math.Cos(angle.Rad(lat)), 1e-6)
 		e1, n1 := resid(lat+dLat, lon)
 		e0, n0 := resid(lat-dLat, lon)
 		e3, n3 := resid(lat, lon+dLon)
@@ -105,8 +105,8 @@ func Where(q WhereQuery) ([]Fix, error) {
 		}
 	}
 	apply := func(lat, lon, dN, dE float64) (float64, float64) {
-		lat += dN / earthRadiusKm / deg
-		lon += dE / earthRadiusKm / deg / math.Max(math.Cos(lat*deg), 1e-6)
+		lat += angle.Deg(dN / earthRadiusKm)
+		lon += angle.Deg(dE/earthRadiusKm) / math.Max(math.Cos(angle.Rad(lat)), 1e-6)
 		if lat > 90 { // stepped over a pole
 			lat, lon = 180-lat, lon+180
 		} else if lat < -90 {
@@ -155,10 +155,10 @@ func Where(q WhereQuery) ([]Fix, error) {
 	}
 
 	// Measurement covariance mapped to (e, n) by the Jacobian of horiz.
-	sA, cA := math.Sincos(m.AzimuthDeg * deg)
-	sH, cH := math.Sincos(m.AltitudeDeg * deg)
+	sA, cA := math.Sincos(angle.Rad(m.AzimuthDeg))
+	sH, cH := math.Sincos(angle.Rad(m.AltitudeDeg))
 	ma := mat2{{cH * cA, -sH * sA}, {-cH * sA, -sH * cA}} // ∂(e, n)/∂(az, alt), per radian
-	sdA, sdH := m.AzimuthSDDeg*deg, m.AltitudeSDDeg*deg
+	sdA, sdH := angle.Rad(m.AzimuthSDDeg), angle.Rad(m.AltitudeSDDeg)
 	cov := mat2{{sdA * sdA, m.Correlation * sdA * sdH}, {m.Correlation * sdA * sdH, sdH * sdH}}
 	sEN := mul(mul(ma, cov), transpose(ma))
 
@@ -205,7 +205,7 @@ func Where(q WhereQuery) ([]Fix, error) {
 		f := Fix{LatDeg: lat, LonDeg: lon, Misfit: misfit, SubsolarLatDeg: ssp.SubsolarLatDeg, SubsolarLonDeg: ssp.SubsolarLonDeg,
 			SemiMajorKm: math.Sqrt(mid + d), SemiMinorKm: math.Sqrt(math.Max(mid-d, 0))}
 		// Bearing of the major axis: the eigenvector's angle from north, tan 2θ = 2b/(a − c).
-		f.MajorAxisDeg = math.Mod(angle.Norm360(math.Atan2(2*b, a-c)/2/deg), 180)
+		f.MajorAxisDeg = math.Mod(angle.Norm360(angle.Deg(math.Atan2(2*b, a-c)/2)), 180)
 		f.RadiusKm = math.Sqrt(fixLevel) * f.SemiMajorKm
 		fixes = append(fixes, f)
 	}
@@ -221,19 +221,19 @@ func Where(q WhereQuery) ([]Fix, error) {
 // (latDeg, lonDeg) along initial bearing bearingDeg, on a sphere
 // (standard direct geodesic problem on the sphere).
 func destination(latDeg, lonDeg, bearingDeg, distDeg float64) (float64, float64) {
-	sP, cP := math.Sincos(latDeg * deg)
-	sD, cD := math.Sincos(distDeg * deg)
-	sB, cB := math.Sincos(bearingDeg * deg)
+	sP, cP := math.Sincos(angle.Rad(latDeg))
+	sD, cD := math.Sincos(angle.Rad(distDeg))
+	sB, cB := math.Sincos(angle.Rad(bearingDeg))
 	lat := math.Asin(sP*cD + cP*sD*cB)
-	lon := lonDeg*deg + math.Atan2(sB*sD*cP, cD-sP*math.Sin(lat))
-	return lat / deg, angle.Wrap180(lon / deg)
+	lon := angle.Rad(lonDeg) + math.Atan2(sB*sD*cP, cD-sP*math.Sin(lat))
+	return angle.Deg(lat), angle.Wrap180(angle.Deg(lon))
 }
 
 // horiz returns the east and north components of the unit vector toward
 // a sun at azimuth az and altitude alt.
 func horiz(azDeg, altDeg float64) (e, n float64) {
-	sA, cA := math.Sincos(azDeg * deg)
-	c := math.Cos(altDeg * deg)
+	sA, cA := math.Sincos(angle.Rad(azDeg))
+	c := math.Cos(angle.Rad(altDeg))
 	return c * sA, c * cA
 }
 
@@ -254,10 +254,10 @@ func horiz(azDeg, altDeg float64) (e, n float64) {
 // it reproduces the azimuth and altitude to 0.5°: one root normally, both
 // when the circle of equal altitude encloses a pole.
 func circleOfPosition(decDeg, gpLonDeg, azDeg, altDeg float64) [][2]float64 {
-	z := (90 - altDeg) * deg
+	z := angle.Rad(90 - altDeg)
 	sz, cz := math.Sincos(z)
-	sA, cA := math.Sincos(azDeg * deg)
-	sD, cD := math.Sincos(decDeg * deg)
+	sA, cA := math.Sincos(angle.Rad(azDeg))
+	sD, cD := math.Sincos(angle.Rad(decDeg))
 	a, b := cz, sz*cA
 	r := math.Hypot(a, b)
 	psi := math.Atan2(b, a)
@@ -276,10 +276,10 @@ func circleOfPosition(decDeg, gpLonDeg, azDeg, altDeg float64) [][2]float64 {
 		cH := (cz - sP*sD) / (cP * cD)
 		h := math.Atan2(sH, cH)
 		sh, ch := math.Sincos(h)
-		gotAlt := math.Asin(sP*sD+cP*cD*ch) / deg
-		gotAz := math.Atan2(sh, ch*sP-sD/cD*cP)/deg + 180 // SPA Eq. 45–46 without parallax
-		if math.Abs(angle.Wrap180(gotAz-azDeg))*math.Cos(altDeg*deg)+math.Abs(gotAlt-altDeg) < 0.5 {
-			out = append(out, [2]float64{phi / deg, angle.Wrap180(gpLonDeg + h/deg)})
+		gotAlt := angle.Deg(math.Asin(sP*sD + cP*cD*ch))
+		gotAz := angle.Deg(math.Atan2(sh, ch*sP-sD/cD*cP)) + 180 // SPA Eq. 45–46 without parallax
+		if math.Abs(angle.Wrap180(gotAz-azDeg))*math.Cos(angle.Rad(altDeg))+math.Abs(gotAlt-altDeg) < 0.5 {
+			out = append(out, [2]float64{angle.Deg(phi), angle.Wrap180(gpLonDeg + angle.Deg(h))})
 		}
 	}
 	if len(out) == 0 && (altDeg > 89.9 || cD < 1e-12) { // degenerate: start at the GP

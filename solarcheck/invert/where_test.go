@@ -59,7 +59,7 @@ func TestWhereRoundTrip(t *testing.T) {
 				best = math.Min(best, sphere.DistanceKm(f.LatDeg, f.LonDeg, tc.lat, tc.lon))
 				// Every fix must really see the sun where it was measured.
 				q := sunAt(f.LatDeg, f.LonDeg, tc.at)
-				if math.Abs(angle.Wrap180(q.AzimuthDeg-p.AzimuthDeg))*math.Cos(p.AltitudeDeg*deg) > 1e-6 || math.Abs(q.AltitudeDeg-p.AltitudeDeg) > 1e-6 {
+				if math.Abs(angle.Wrap180(q.AzimuthDeg-p.AzimuthDeg))*math.Cos(angle.Rad(p.AltitudeDeg)) > 1e-6 || math.Abs(q.AltitudeDeg-p.AltitudeDeg) > 1e-6 {
 					t.Errorf("%s: fix %+v sees az %.6f alt %.6f, measured %.6f %.6f", tc.source, f, q.AzimuthDeg, q.AltitudeDeg, p.AzimuthDeg, p.AltitudeDeg)
 				}
 				// 0.5° in altitude moves the circle of position by 55.6 km.
@@ -105,7 +105,7 @@ func TestWhereZenith(t *testing.T) {
 			}
 			// Radius: 0.5° of altitude is 55.6 km on the ground; 95 % circle √5.991 × that
 			// (5.991: χ² 95 % point for 2 dof, NIST/SEMATECH e-Handbook 1.3.6.7.4).
-			if want := math.Sqrt(5.991) * 0.5 * deg * earthRadiusKm; math.Abs(f.RadiusKm-want) > 0.01*want {
+			if want := angle.Rad(math.Sqrt(5.991)*0.5) * earthRadiusKm; math.Abs(f.RadiusKm-want) > 0.01*want {
 				t.Errorf("%s: radius %.1f km, want %.1f", tc.source, f.RadiusKm, want)
 			}
 		}

@@ -86,8 +86,6 @@ type Estimate struct {
 	ShadowRelative float64 // Length / Height, for the record
 }
 
-const deg = math.Pi / 180
-
 func (g Ground) check() error {
 	if math.IsNaN(g.SlopeDeg) || g.SlopeDeg < 0 || g.SlopeDeg >= 90 {
 		return fmt.Errorf("slope %g°: want 0 ≤ slope < 90: %w", g.SlopeDeg, ErrInvalid)
@@ -101,7 +99,7 @@ func (g Ground) check() error {
 // tilt returns k = tan(slope)·cos(bearing − toward): the rate at which the
 // ground falls per unit of horizontal distance along bearingDeg.
 func (g Ground) tilt(bearingDeg float64) float64 {
-	return math.Tan(g.SlopeDeg*deg) * math.Cos((bearingDeg-g.TowardDeg)*deg)
+	return math.Tan(angle.Rad(g.SlopeDeg)) * math.Cos(angle.Rad(bearingDeg-g.TowardDeg))
 }
 
 func (s Shadow) check() error {
@@ -160,7 +158,7 @@ func SunFromShadow(s Shadow) (Sun, error) {
 	}
 	return Sun{
 		AzimuthDeg:  angle.Norm360(s.BearingDeg + 180),
-		AltitudeDeg: math.Atan(tanE) / deg,
+		AltitudeDeg: angle.Deg(math.Atan(tanE)),
 	}, nil
 }
 
@@ -182,7 +180,7 @@ func ShadowFromSun(sun Sun, height float64, g Ground) (length, bearingDeg float6
 	}
 	bearingDeg = angle.Norm360(sun.AzimuthDeg + 180)
 	k := g.tilt(bearingDeg)
-	den := math.Tan(sun.AltitudeDeg*deg) - k // eq. (3)
+	den := math.Tan(angle.Rad(sun.AltitudeDeg)) - k // eq. (3)
 	if !(den > 0) {
 		return 0, 0, fmt.Errorf("sun at altitude %g° is behind a %g° slope: %w", sun.AltitudeDeg, g.SlopeDeg, ErrNoShadow)
 	}
@@ -219,11 +217,11 @@ func Propagate(s Shadow, u Uncertainty) (Estimate, error) {
 	dEdG := 1 / (1 + g*g) // radians per unit of g
 	dGdH := r / l
 	dGdL := -h * r / (l * l)
-	dKdB := -math.Tan(s.Ground.SlopeDeg*deg) * math.Sin((s.BearingDeg-s.Ground.TowardDeg)*deg) // per radian
+	dKdB := -math.Tan(angle.Rad(s.Ground.SlopeDeg)) * math.Sin(angle.Rad(s.BearingDeg-s.Ground.TowardDeg)) // per radian
 	dGdB := dKdB * (1 + h*k/(l*r))
 
 	sdL := u.LengthSDPct / 100 * l
-	sdB := u.BearingSDDeg * deg
+	sdB := angle.Rad(u.BearingSDDeg)
 	eH := dEdG * dGdH * u.HeightSD
 	eL := dEdG * dGdL * sdL
 	eB := dEdG * dGdB * sdB
@@ -231,7 +229,7 @@ func Propagate(s Shadow, u Uncertainty) (Estimate, error) {
 	est := Estimate{
 		Sun:            sun,
 		AzimuthSDDeg:   u.BearingSDDeg,
-		AltitudeSDDeg:  sdE / deg,
+		AltitudeSDDeg:  angle.Deg(sdE),
 		ShadowRelative: l / h,
 	}
 	if sdE > 0 && sdB > 0 {

@@ -24,7 +24,7 @@ func TestLevelGroundFacts(t *testing.T) {
 		{"common knowledge: 45° sun, shadow equals height", 2, 2, 0, 180, 45},
 		{"common knowledge: 30° sun, L = h·√3", 1, math.Sqrt(3), 90, 270, 30},
 		{"common knowledge: 60° sun, L = h/√3", 3, 3 / math.Sqrt(3), 300, 120, 60},
-		{"common knowledge: tan(alt) = h/L (3-4-5 triangle)", 3, 4, 225, 45, math.Atan2(3, 4) * 180 / math.Pi},
+		{"common knowledge: tan(alt) = h/L (3-4-5 triangle)", 3, 4, 225, 45, angle.Deg(math.Atan2(3, 4))},
 		{"common knowledge: shadow points away from the sun", 1, 1, 359, 179, 45},
 	}
 	for _, tc := range tests {
@@ -75,7 +75,7 @@ func TestSlopeLawOfSines(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%s: %v", tc.source, err)
 		}
-		want := tc.want(h, tc.altDeg*deg, tc.slope*deg)
+		want := tc.want(h, angle.Rad(tc.altDeg), angle.Rad(tc.slope))
 		if !near(l, want, 1e-9*want) || !near(b, angle.Norm360(bearing), 1e-9) {
 			t.Errorf("%s (alt %g, slope %g, rel %g): L %.9f b %.6f, want L %.9f b %.6f", tc.source, tc.altDeg, tc.slope, tc.rel, l, b, want, angle.Norm360(bearing))
 		}

@@ -94,7 +94,7 @@ func DayAt(start time.Time, o Observer, deltaTSec float64) Day {
 		alpha[i], delta[i] = g.RightAscensionDeg, g.DeclinationDeg
 	}
 	r := riseSet{o: o, nu: nu, dtDay: deltaTSec / 86400, alpha: alpha, delta: delta,
-		sinPhi: math.Sin(o.LatDeg * deg), cosPhi: math.Cos(o.LatDeg * deg)}
+		sinPhi: math.Sin(angle.Rad(o.LatDeg)), cosPhi: math.Cos(angle.Rad(o.LatDeg))}
 
 	d := Day{Start: start}
 	m0 := (alpha[1] - o.LonDeg - nu) / 360 // Eq. A3
@@ -105,18 +105,18 @@ func DayAt(start time.Time, o Observer, deltaTSec float64) Day {
 	d.TransitAltitudeDeg, _, _ = r.at(tFrac)
 
 	ev := func(h0 float64) (rise, set *time.Time, p Polar) {
-		x := (math.Sin(h0*deg) - r.sinPhi*math.Sin(delta[1]*deg)) / (r.cosPhi * math.Cos(delta[1]*deg)) // Eq. A4
+		x := (math.Sin(angle.Rad(h0)) - r.sinPhi*math.Sin(angle.Rad(delta[1]))) / (r.cosPhi * math.Cos(angle.Rad(delta[1]))) // Eq. A4
 		switch {
 		case math.IsNaN(x) || x > 1:
 			return nil, nil, AlwaysBelow
 		case x < -1:
 			return nil, nil, AlwaysAbove
 		}
-		bigH0 := math.Acos(x) * rad   // Eq. A4, 0..180
-		m1 := limit01(m0 - bigH0/360) // Eq. A5
-		m2 := limit01(m0 + bigH0/360) // Eq. A6
-		rf := r.correct(m1, h0)       // Eq. A14
-		sf := r.correct(m2, h0)       // Eq. A15
+		bigH0 := angle.Deg(math.Acos(x)) // Eq. A4, 0..180
+		m1 := limit01(m0 - bigH0/360)    // Eq. A5
+		m2 := limit01(m0 + bigH0/360)    // Eq. A6
+		rf := r.correct(m1, h0)          // Eq. A14
+		sf := r.correct(m2, h0)          // Eq. A15
 		rt, st := addDays(start, rf), addDays(start, sf)
 		return &rt, &st, RisesAndSets
 	}
@@ -144,15 +144,15 @@ func (r riseSet) at(m float64) (hDeg, hpDeg, deltaPDeg float64) {
 	alphaP := interp(r.alpha, n, true)
 	deltaP := interp(r.delta, n, false)
 	hp := angle.Wrap180(nuI + r.o.LonDeg - alphaP) // Eq. A11
-	sd, cd := math.Sincos(deltaP * deg)
-	h := math.Asin(r.sinPhi*sd+r.cosPhi*cd*math.Cos(hp*deg)) * rad // Eq. A12
+	sd, cd := math.Sincos(angle.Rad(deltaP))
+	h := angle.Deg(math.Asin(r.sinPhi*sd + r.cosPhi*cd*math.Cos(angle.Rad(hp)))) // Eq. A12
 	return h, hp, deltaP
 }
 
 // correct applies Eq. A14/A15 to the first guess m for altitude h0.
 func (r riseSet) correct(m, h0 float64) float64 {
 	h, hp, dp := r.at(m)
-	return m + (h-h0)/(360*math.Cos(dp*deg)*r.cosPhi*math.Sin(hp*deg))
+	return m + (h-h0)/(360*math.Cos(angle.Rad(dp))*r.cosPhi*math.Sin(angle.Rad(hp)))
 }
 
 // interp is SPA Eq. A9/A10: second-order interpolation through the values

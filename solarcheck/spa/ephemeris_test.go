@@ -22,7 +22,7 @@ func TestEphemerisMatchesAt(t *testing.T) {
 		o := NewObserver(r.Float64()*180-90, r.Float64()*360-180, 0)
 		got := e.At(s).Topocentric(o)
 		want := At(ts, o, DeltaT(ts))
-		dAz := math.Abs(angle.Wrap180(got.AzimuthDeg-want.AzimuthDeg)) * math.Cos(want.AltitudeDeg*deg)
+		dAz := math.Abs(angle.Wrap180(got.AzimuthDeg-want.AzimuthDeg)) * math.Cos(angle.Rad(want.AltitudeDeg))
 		if dAz > 1e-5 || math.Abs(got.AltitudeDeg-want.AltitudeDeg) > 1e-5 {
 			t.Fatalf("%s: %s at %.2f,%.2f: interpolated az %.7f alt %.7f, spa.At %.7f %.7f",
 				"self-consistency with At (itself checked against the SPA report and astropy)", ts, o.LatDeg, o.LonDeg, got.AzimuthDeg, got.AltitudeDeg, want.AzimuthDeg, want.AltitudeDeg)

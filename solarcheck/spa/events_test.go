@@ -8,6 +8,8 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 )
 
 // TestDayAtAgainstPyEphem compares DayAt with PyEphem's rise/set/transit
@@ -67,9 +69,9 @@ func TestDayAtAgainstPyEphem(t *testing.T) {
 			t.Errorf("%s row %d (%s, %g, %g): transit %v, reference %v", source, i+1, rec[0], lat, lon, d.Transit, transit)
 		}
 		// Eq. A4 for this day, to recognise grazing geometry.
-		dec := GeocentricAt(start, 0).DeclinationDeg * deg
+		dec := angle.Rad(GeocentricAt(start, 0).DeclinationDeg)
 		cosH0 := func(h0 float64) float64 {
-			return (math.Sin(h0*deg) - math.Sin(lat*deg)*math.Sin(dec)) / (math.Cos(lat*deg) * math.Cos(dec))
+			return (math.Sin(angle.Rad(h0)) - math.Sin(angle.Rad(lat))*math.Sin(dec)) / (math.Cos(angle.Rad(lat)) * math.Cos(dec))
 		}
 		events := []struct {
 			name  string
@@ -120,7 +122,7 @@ func TestDayAtAgainstPyEphem(t *testing.T) {
 				worst = max(worst, diff)
 				// The same difference as an altitude error: the sun's
 				// altitude changes at 360.9856°/day·cos φ·cos δ·sin H0.
-				rate := 360.9856 / 86400 * math.Cos(lat*deg) * math.Cos(dec) * math.Sqrt(1-c*c)
+				rate := 360.9856 / 86400 * math.Cos(angle.Rad(lat)) * math.Cos(dec) * math.Sqrt(1-c*c)
 				altErr := diff.Seconds() * rate
 				worstAlt = math.Max(worstAlt, altErr)
 				if diff > tolEvent && altErr > tolEventAltDeg {

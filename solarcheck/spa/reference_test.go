@@ -89,7 +89,7 @@ func TestReferenceTable(t *testing.T) {
 	for _, c := range cases {
 		p := At(c.t, c.obs, c.deltaT)
 		dAlt := math.Abs(p.AltitudeAirlessDeg - c.altAirless)
-		dAz := math.Abs(angle.Wrap180(p.AzimuthDeg-c.az)) * math.Cos(c.altAirless*deg)
+		dAz := math.Abs(angle.Wrap180(p.AzimuthDeg-c.az)) * math.Cos(angle.Rad(c.altAirless))
 		dEoT := math.Abs(p.EquationOfTimeMin - c.eotMin)
 		dDecl := math.Abs(p.DeclinationDeg - c.decl)
 		// The reference's EoT is apparent solar time minus UT1; so is this

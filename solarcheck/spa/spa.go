@@ -103,11 +103,6 @@ type Position struct {
 	SubsolarLonDeg    float64       // longitude where the sun is overhead (H = 0), −180..180
 }
 
-const (
-	deg = math.Pi / 180
-	rad = 180 / math.Pi
-)
-
 // unixEpochJD is the Julian Day of 1970-01-01T00:00:00 UT.
 const unixEpochJD = 2440587.5
 
@@ -155,11 +150,11 @@ func geocentricJD(jd, deltaTSec float64) Geocentric {
 	jme := g.JME
 
 	// 3.2 Earth heliocentric longitude, latitude and radius vector.
-	lRad := seriesSum(jme, 0, 6)              // Eq. 9–11
-	bRad := seriesSum(jme, 6, 2)              // Eq. 9–11 for B
-	g.EarthRadiusAU = seriesSum(jme, 8, 5)    // Eq. 9–11 for R, AU
-	g.HelioLonDeg = angle.Norm360(lRad * rad) // Eq. 12
-	g.HelioLatDeg = bRad * rad                // Eq. 12 for B
+	lRad := seriesSum(jme, 0, 6)                   // Eq. 9–11
+	bRad := seriesSum(jme, 6, 2)                   // Eq. 9–11 for B
+	g.EarthRadiusAU = seriesSum(jme, 8, 5)         // Eq. 9–11 for R, AU
+	g.HelioLonDeg = angle.Norm360(angle.Deg(lRad)) // Eq. 12
+	g.HelioLatDeg = angle.Deg(bRad)                // Eq. 12 for B
 
 	// 3.3 Geocentric longitude and latitude.
 	g.GeoLonDeg = angle.Norm360(g.HelioLonDeg + 180) // Eq. 13
@@ -184,16 +179,16 @@ func geocentricJD(jd, deltaTSec float64) Geocentric {
 	jc := g.JC
 	g.MeanSiderealDeg = angle.Norm360(280.46061837 + 360.98564736629*(jd-j2000) +
 		jc*jc*(0.000387933-jc/38710000)) // Eq. 28
-	epsRad := g.ObliquityDeg * deg
+	epsRad := angle.Rad(g.ObliquityDeg)
 	g.SiderealDeg = g.MeanSiderealDeg + g.NutationLonDeg*math.Cos(epsRad) // Eq. 29
 
 	// 3.9–3.10 Geocentric right ascension and declination.
-	lam := g.ApparentLonDeg * deg
-	beta := g.GeoLatDeg * deg
+	lam := angle.Rad(g.ApparentLonDeg)
+	beta := angle.Rad(g.GeoLatDeg)
 	sinLam, cosLam := math.Sincos(lam)
 	sinEps, cosEps := math.Sincos(epsRad)
-	g.RightAscensionDeg = angle.Norm360(math.Atan2(sinLam*cosEps-math.Tan(beta)*sinEps, cosLam) * rad) // Eq. 30
-	g.DeclinationDeg = math.Asin(math.Sin(beta)*cosEps+math.Cos(beta)*sinEps*sinLam) * rad             // Eq. 31
+	g.RightAscensionDeg = angle.Norm360(angle.Deg(math.Atan2(sinLam*cosEps-math.Tan(beta)*sinEps, cosLam))) // Eq. 30
+	g.DeclinationDeg = angle.Deg(math.Asin(math.Sin(beta)*cosEps + math.Cos(beta)*sinEps*sinLam))           // Eq. 31
 
 	// A.1 Equation of time.
 	g.SunMeanLonDeg = angle.Norm360(280.4664567 + jme*(360007.6982779+jme*(0.03032028+
@@ -237,7 +232,7 @@ func nutation(jce float64) (dPsiDeg, dEpsDeg float64) {
 	x[4] = 125.04452 + jce*(-1934.136261+jce*(0.0020708+jce/450000))   // Eq. 19: longitude of the ascending node Ω
 	var sumPsi, sumEps float64
 	for _, t := range nutationTerms {
-		arg := (x[0]*t.Y[0] + x[1]*t.Y[1] + x[2]*t.Y[2] + x[3]*t.Y[3] + x[4]*t.Y[4]) * deg
+		arg := angle.Rad(x[0]*t.Y[0] + x[1]*t.Y[1] + x[2]*t.Y[2] + x[3]*t.Y[3] + x[4]*t.Y[4])
 		s, c := math.Sincos(arg)
 		sumPsi += (t.A + t.B*jce) * s // Eq. 20
 		sumEps += (t.C + t.D*jce) * c // Eq. 21
@@ -253,47 +248,47 @@ func nutation(jce float64) (dPsiDeg, dEpsDeg float64) {
 func (g Geocentric) Topocentric(o Observer) Position {
 	p := Position{Geocentric: g, DeclinationDeg: g.DeclinationDeg, RightAscensionDeg: g.RightAscensionDeg,
 		EquationOfTimeMin: g.EquationOfTimeMin}
-	phi := o.LatDeg * deg
+	phi := angle.Rad(o.LatDeg)
 
 	// 3.11 Observer local hour angle.
 	h := angle.Norm360(g.SiderealDeg + o.LonDeg - g.RightAscensionDeg) // Eq. 32
 	p.GeoHourAngleDeg = angle.Wrap180(h)
-	hRad := h * deg
+	hRad := angle.Rad(h)
 	sinH, cosH := math.Sincos(hRad)
 
 	// 3.12 Topocentric right ascension and declination.
-	xi := 8.794 / (3600 * g.EarthRadiusAU) * deg // Eq. 33: equatorial horizontal parallax ξ
-	u := math.Atan(0.99664719 * math.Tan(phi))   // Eq. 34
+	xi := angle.Rad(8.794 / (3600 * g.EarthRadiusAU)) // Eq. 33: equatorial horizontal parallax ξ
+	u := math.Atan(0.99664719 * math.Tan(phi))        // Eq. 34
 	sinU, cosU := math.Sincos(u)
 	sinPhi, cosPhi := math.Sincos(phi)
 	x := cosU + o.ElevationM/6378140*cosPhi            // Eq. 35
 	y := 0.99664719*sinU + o.ElevationM/6378140*sinPhi // Eq. 36
-	delta := g.DeclinationDeg * deg
+	delta := angle.Rad(g.DeclinationDeg)
 	sinDelta, cosDelta := math.Sincos(delta)
 	sinXi := math.Sin(xi)
 	den := cosDelta - x*sinXi*cosH
 	dAlpha := math.Atan2(-x*sinXi*sinH, den) // Eq. 37
-	p.ParallaxRADeg = dAlpha * rad
+	p.ParallaxRADeg = angle.Deg(dAlpha)
 	p.TopoRightAscensionDeg = angle.Norm360(g.RightAscensionDeg + p.ParallaxRADeg) // Eq. 38
 	deltaP := math.Atan2((sinDelta-y*sinXi)*math.Cos(dAlpha), den)                 // Eq. 39
-	p.TopoDeclinationDeg = deltaP * rad
+	p.TopoDeclinationDeg = angle.Deg(deltaP)
 
 	// 3.13 Topocentric local hour angle.
 	hp := hRad - dAlpha // Eq. 40
-	p.HourAngleDeg = angle.Wrap180(hp * rad)
+	p.HourAngleDeg = angle.Wrap180(angle.Deg(hp))
 	sinHp, cosHp := math.Sincos(hp)
 	sinDp, cosDp := math.Sincos(deltaP)
 
 	// 3.14 Topocentric zenith angle.
-	e0 := math.Asin(sinPhi*sinDp+cosPhi*cosDp*cosHp) * rad // Eq. 41
+	e0 := angle.Deg(math.Asin(sinPhi*sinDp + cosPhi*cosDp*cosHp)) // Eq. 41
 	p.AltitudeAirlessDeg = e0
 	p.RefractionDeg = Refraction(e0, o.PressureHPa, o.TemperatureC) // Eq. 42
 	p.AltitudeDeg = e0 + p.RefractionDeg                            // Eq. 43
 	p.ZenithDeg = 90 - p.AltitudeDeg                                // Eq. 44
 
 	// 3.15 Topocentric azimuth.
-	gamma := math.Atan2(sinHp, cosHp*sinPhi-math.Tan(deltaP)*cosPhi) * rad // Eq. 45: astronomers' azimuth Γ (from south)
-	p.AzimuthDeg = angle.Norm360(gamma + 180)                              // Eq. 46: from north, clockwise
+	gamma := angle.Deg(math.Atan2(sinHp, cosHp*sinPhi-math.Tan(deltaP)*cosPhi)) // Eq. 45: astronomers' azimuth Γ (from south)
+	p.AzimuthDeg = angle.Norm360(gamma + 180)                                   // Eq. 46: from north, clockwise
 
 	p.SubsolarLatDeg = g.DeclinationDeg
 	p.SubsolarLonDeg = angle.Wrap180(g.RightAscensionDeg - g.SiderealDeg) // where Eq. 32 gives H = 0
@@ -314,7 +309,7 @@ func Refraction(e0Deg, pressureHPa, temperatureC float64) float64 {
 		return 0
 	}
 	return pressureHPa / 1010 * 283 / (273 + temperatureC) *
-		1.02 / (60 * math.Tan((e0Deg+10.3/(e0Deg+5.11))*deg)) // Eq. 42
+		1.02 / (60 * math.Tan(angle.Rad(e0Deg+10.3/(e0Deg+5.11)))) // Eq. 42
 }
 
 // At computes the Sun's position for an observer at t (UT1) with

@@ -289,8 +289,8 @@ func TestDayEventsMatchFullSPA(t *testing.T) {
 			// Airless, without parallax: geocentric altitude from H and δ.
 			geoAlt := func(tm time.Time) float64 {
 				p := At(tm, Observer{LatDeg: o.LatDeg, LonDeg: o.LonDeg}, dt)
-				phi, dec, h := o.LatDeg*deg, p.DeclinationDeg*deg, p.GeoHourAngleDeg*deg
-				return math.Asin(math.Sin(phi)*math.Sin(dec)+math.Cos(phi)*math.Cos(dec)*math.Cos(h)) * rad
+				phi, dec, h := angle.Rad(o.LatDeg), angle.Rad(p.DeclinationDeg), angle.Rad(p.GeoHourAngleDeg)
+				return angle.Deg(math.Asin(math.Sin(phi)*math.Sin(dec) + math.Cos(phi)*math.Cos(dec)*math.Cos(h)))
 			}
 			if h := At(d.Transit, o, dt).GeoHourAngleDeg; math.Abs(h) > 0.005 { // 1.2 s
 				t.Errorf("%v lat %g: hour angle at transit %.4f°", day, o.LatDeg, h)

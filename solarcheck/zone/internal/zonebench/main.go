@@ -23,6 +23,7 @@ import (
 	"runtime"
 	"time"
 
+	"github.com/gnomon-forensics/gnomon/internal/angle"
 	"github.com/gnomon-forensics/gnomon/solarcheck/zone"
 	"github.com/ringsaturn/tzf"
 	tzfrellite "github.com/ringsaturn/tzf-rel-lite"
@@ -57,7 +58,7 @@ func main() {
 	rng := rand.New(rand.NewPCG(1, 2))
 	pts := make([][2]float64, *n)
 	for i := range pts { // uniform over the sphere
-		pts[i] = [2]float64{math.Asin(2*rng.Float64()-1) * 180 / math.Pi, 360*rng.Float64() - 180}
+		pts[i] = [2]float64{angle.Deg(math.Asin(2*rng.Float64() - 1)), 360*rng.Float64() - 180}
 	}
 	pass := func() (time.Duration, int, int) {
 		none, several := 0, 0
