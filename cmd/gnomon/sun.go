@@ -22,7 +22,9 @@ const sunAbout = `Print where the sun was at a time and place (NREL SPA, Reda & 
 and civil, nautical and astronomical twilight.
 
 --time is RFC 3339 with an offset (2003-10-17T12:30:30-07:00, ...Z), or a
-wall time YYYY-MM-DDTHH:MM:SS read in --zone. The resulting UTC instant is
+wall time YYYY-MM-DDTHH:MM:SS read in --zone, or, without --zone, in the
+time zone that holds at --lat/--lon (looked up offline; the answer names
+it). The resulting UTC instant is
 treated as UT1 (|UT1-UTC| < 0.9 s, at most 0.004° of sun motion);
 TT = UT1 + delta-t. Dates before 1582-10-15 are read in the Julian calendar
 (--calendar auto); --calendar julian or gregorian forces one calendar.
@@ -142,6 +144,9 @@ type sunJSON struct {
 	TimeReading       string   `json:"time_reading,omitempty"`
 	OtherTimes        []string `json:"other_times,omitempty"`
 	TimeLocal         string   `json:"time_local"`
+	UTCOffsetSec      int      `json:"utc_offset_s"`
+	ZoneUsed          string   `json:"zone_used,omitempty"`
+	ZoneNote          string   `json:"zone_note,omitempty"`
 	CalendarDate      string   `json:"calendar_date"`
 	Lat               float64  `json:"lat"`
 	Lon               float64  `json:"lon"`
@@ -209,7 +214,15 @@ func runSun(e env, args []string) int {
 	if err != nil {
 		return usageErr(fs, "--calendar: %v", err)
 	}
-	t, loc, rd, err := parseSunTime(f.time, f.zone, cal, zone.NewDB())
+	db := zone.NewDB()
+	zoneArg, zoneNote := f.zone, ""
+	if zoneArg == "" && needsZone(f.time) {
+		zoneArg, zoneNote, err = zoneAtPlace(zone.NewFinder(db), f.lat, f.lon)
+		if err != nil {
+			return fail(e.stderr, "sun", err)
+		}
+	}
+	t, loc, rd, err := parseSunTime(f.time, zoneArg, cal, db)
 	if err != nil {
 		return usageErr(fs, "%v", strings.TrimPrefix(err.Error(), errSunInput.Error()+": "))
 	}
@@ -232,7 +245,8 @@ func runSun(e env, args []string) int {
 	d := spa.DayAt(dayStart, o, dt)
 
 	out := sunJSON{
-		Time: t.UTC().Format(time.RFC3339Nano), TimeReading: rd.note, OtherTimes: rd.others, TimeLocal: lt.Format(time.RFC3339Nano),
+		Time: t.UTC().Format(time.RFC3339Nano), TimeReading: rd.note, OtherTimes: rd.others, TimeLocal: localStamp(lt), UTCOffsetSec: utcOffset(lt),
+		ZoneUsed: zoneArg, ZoneNote: zoneNote,
 		CalendarDate: spa.CalendarDateOf(lt, cal).String(),
 		Lat:          f.lat, Lon: f.lon, ElevationM: f.elev, PressureHPa: f.press, TemperatureC: f.temp,
 		DeltaT: round(dt, 3), DeltaTSource: dtSource,
@@ -276,10 +290,13 @@ func writeSunTable(w io.Writer, j sunJSON, p spa.Position, d spa.Day, loc *time.
 			row(name, "none (sun %s that altitude all day)", polar)
 			return
 		}
-		row(name, "%s  (%s local)", utcString(*t), t.In(loc).Round(time.Second).Format("15:04:05 -07:00"))
+		row(name, "%s  (%s local)", utcString(*t), offsetLayout(t.In(loc).Round(time.Second), "15:04:05 -07:00"))
 	}
 	row("time (UTC, read as UT1)", "%s", j.Time)
 	row("time (local)", "%s  (as read: %s)", j.TimeLocal, j.CalendarDate)
+	if j.ZoneNote != "" {
+		row("time zone", "%s", j.ZoneNote)
+	}
 	if j.TimeReading != "" {
 		row("note", "%s", j.TimeReading)
 	}
@@ -332,7 +349,55 @@ func zoneName(loc *time.Location, t time.Time) string {
 	if loc.String() != "" && !strings.HasPrefix(loc.String(), "+") && !strings.HasPrefix(loc.String(), "-") {
 		return loc.String()
 	}
-	return "UTC" + t.Format("-07:00")
+	return "UTC" + offsetLayout(t, "-07:00")
+}
+
+// utcOffset is t's offset from UTC in seconds.
+func utcOffset(t time.Time) int {
+	_, off := t.Zone()
+	return off
+}
+
+// offsetLayout formats t with layout, whose offset part ("-07:00") gains
+// seconds when t's offset has them: local mean time before standard zones
+// (Rome kept +00:49:56 until 1866 in the tz database) would otherwise be
+// shown a minute short, and the local clock time and the UTC instant would
+// not agree by the offset shown. RFC 3339 has no offset seconds; such a
+// time is ISO 8601's extended form with seconds, which is what it is.
+func offsetLayout(t time.Time, layout string) string {
+	if utcOffset(t)%60 != 0 {
+		layout = strings.Replace(layout, "-07:00", "-07:00:00", 1)
+	}
+	return t.Format(layout)
+}
+
+// localStamp is t as an RFC 3339 local time, with offset seconds where the
+// offset has them (see offsetLayout).
+func localStamp(t time.Time) string {
+	return offsetLayout(t, "2006-01-02T15:04:05.999999999-07:00")
+}
+
+// needsZone reports whether --time is a wall time without an offset (a
+// value that is not a wall time at all is left for parseSunTime to refuse).
+func needsZone(s string) bool {
+	m := wallTimeRE.FindStringSubmatch(strings.TrimSpace(s))
+	return m != nil && m[8] == ""
+}
+
+// zoneAtPlace is the zone a wall time at lat/lon is read in when --zone is
+// not given: the one the offline zone map holds there, and a sentence that
+// says so. Where zones overlap (disputed borders) the first is used and the
+// sentence names the others, so nothing is chosen silently.
+func zoneAtPlace(f *zone.Finder, lat, lon float64) (string, string, error) {
+	pl, err := f.Lookup(lat, lon)
+	if err != nil || len(pl.Zones) == 0 {
+		return "", "", fmt.Errorf("no time zone found at %g, %g: give --zone or an offset in --time (%v)", lat, lon, err)
+	}
+	note := pl.Zones[0] + ", looked up from the place (--zone overrides)"
+	if len(pl.Zones) > 1 {
+		note += "; zones that also hold here: " + strings.Join(pl.Zones[1:], ", ") + ": the answer may differ in those"
+	}
+	return pl.Zones[0], note, nil
 }
 
 func round(x float64, places int) float64 {

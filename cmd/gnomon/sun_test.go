@@ -32,7 +32,6 @@ func TestSunExitCodes(t *testing.T) {
 		{"unparseable time", []string{"sun", "--time", "yesterday", "--lat", "1", "--lon", "1"}, exitUsage, "is not YYYY-MM-DD"},
 		{"impossible date", []string{"sun", "--time", "2023-02-29T12:00:00Z", "--lat", "1", "--lon", "1"}, exitUsage, "invalid calendar date"},
 		{"reform gap", []string{"sun", "--time", "1582-10-10T12:00:00Z", "--lat", "1", "--lon", "1"}, exitUsage, "dropped by the Gregorian reform"},
-		{"no offset no zone", []string{"sun", "--time", "2024-06-21T12:00:00", "--lat", "1", "--lon", "1"}, exitUsage, "has no UTC offset"},
 		{"unknown zone", with("--zone", "Atlantis/Capital"), exitUsage, "unknown --zone"},
 		{"bad calendar", with("--calendar", "mayan"), exitUsage, "unknown calendar"},
 		{"bad delta-t", with("--delta-t", "soon"), exitUsage, "--delta-t"},
@@ -152,6 +151,8 @@ func TestSunCalendarsAndZones(t *testing.T) {
 			[]string{"--time", "1582-10-04T12:00:00Z"}, "1582-10-14T12:00:00Z"},
 		{"IANA tz: Denver kept MDT (UTC−6) until 2003-10-26",
 			[]string{"--time", "2003-10-17T12:30:30", "--zone", "America/Denver"}, "2003-10-17T18:30:30Z"},
+		{"IANA tz: the same wall time without --zone is read in the zone at 40° N 105° W (America/Denver)",
+			[]string{"--time", "2003-10-17T12:30:30"}, "2003-10-17T18:30:30Z"},
 		{"RFC 3339: the offset wins over --zone",
 			[]string{"--time", "2003-10-17T12:30:30-07:00", "--zone", "Europe/Paris"}, "2003-10-17T19:30:30Z"},
 	}
@@ -160,6 +161,44 @@ func TestSunCalendarsAndZones(t *testing.T) {
 		if got, _ := m["time"].(string); got != tc.want {
 			t.Errorf("%s: time = %v, want %s", tc.source, m["time"], tc.want)
 		}
+	}
+}
+
+// TestSunZoneFromPlace: a wall time without --zone is read in the zone the
+// place keeps, named in the answer; local mean time keeps its seconds.
+func TestSunZoneFromPlace(t *testing.T) {
+	tests := []struct {
+		source              string
+		args                []string
+		wantZone, wantLocal string
+		wantOffsetSec       float64
+		wantNote            string // in zone_note
+	}{
+		{"IANA tz (europe): Rome kept CEST, UTC+2, in June 2025",
+			[]string{"--time", "2025-06-21T12:00:00", "--lat", "41.9", "--lon", "12.5"},
+			"Europe/Rome", "2025-06-21T12:00:00+02:00", 7200, "looked up from the place"},
+		{"IANA tz (europe): Rome kept local mean time 0:49:56 until 1866",
+			[]string{"--time", "1500-06-21T12:00:00", "--lat", "41.9", "--lon", "12.5"},
+			"Europe/Rome", "1500-07-01T12:00:00+00:49:56", 2996, "looked up from the place"},
+		{"IANA tz (europe): --zone overrides the place",
+			[]string{"--time", "2025-06-21T12:00:00", "--lat", "41.9", "--lon", "12.5", "--zone", "Europe/London"},
+			"Europe/London", "2025-06-21T12:00:00+01:00", 3600, ""},
+	}
+	for _, tc := range tests {
+		m := sunJSONOf(t, append([]string{"sun"}, tc.args...)...)
+		if m["zone_used"] != tc.wantZone || m["time_local"] != tc.wantLocal || m["utc_offset_s"] != tc.wantOffsetSec {
+			t.Errorf("%s: zone_used %v, time_local %v, utc_offset_s %v; want %s, %s, %v",
+				tc.source, m["zone_used"], m["time_local"], m["utc_offset_s"], tc.wantZone, tc.wantLocal, tc.wantOffsetSec)
+		}
+		note, _ := m["zone_note"].(string)
+		if (tc.wantNote == "") != (note == "") || !strings.Contains(note, tc.wantNote) {
+			t.Errorf("%s: zone_note %q, want one containing %q", tc.source, note, tc.wantNote)
+		}
+	}
+	// The table names the zone, so nothing is read in a zone silently.
+	_, out, _ := captureRun("sun", "--time", "2025-06-21T12:00:00", "--lat", "41.9", "--lon", "12.5")
+	if !strings.Contains(out, "time zone") || !strings.Contains(out, "Europe/Rome") {
+		t.Errorf("table does not name the zone it used:\n%s", out)
 	}
 }
 
