@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/binary"
 	"encoding/csv"
 	"encoding/json"
 	"fmt"
@@ -12,7 +11,6 @@ import (
 	"time"
 
 	"github.com/gnomon-forensics/gnomon/internal/exifwrite"
-	"github.com/gnomon-forensics/gnomon/internal/exifwrite/fixtures"
 )
 
 // TestAuditRepeatedHour audits three New York photos stamped 2025-11-02
@@ -40,17 +38,7 @@ func TestAuditRepeatedHour(t *testing.T) {
 		"none.jpg": {Make: "Acme", Model: "C", DateTimeOriginal: "2025:11:02 01:30:00", GPS: &exifwrite.GPS{LatDeg: lat, LonDeg: lon}},
 	}
 	for name, ph := range photos {
-		payload, err := ph.Payload(binary.BigEndian).Bytes()
-		if err != nil {
-			t.Fatal(err)
-		}
-		b, err := exifwrite.JPEG(payload, fixtures.BaseJPEG, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if err := os.WriteFile(filepath.Join(dir, name), b, 0o644); err != nil {
-			t.Fatal(err)
-		}
+		writeJPEG(t, filepath.Join(dir, name), ph)
 	}
 	out := filepath.Join(t.TempDir(), "report")
 	if code, _, stderr := captureRun("audit", dir, "--out", out, "--quiet", "--formats", "json,csv,html", "--thumbnails=false"); code != 0 {
@@ -163,17 +151,7 @@ func TestAuditRepeatedHourByCamera(t *testing.T) {
 	photos["IMG_0005.jpg"] = exifwrite.Photo{Make: "Acme", Model: "D", DateTimeOriginal: "2025:11:02 01:30:00",
 		GPS: &exifwrite.GPS{LatDeg: lat, LonDeg: lon}}
 	for name, ph := range photos {
-		payload, err := ph.Payload(binary.BigEndian).Bytes()
-		if err != nil {
-			t.Fatal(err)
-		}
-		b, err := exifwrite.JPEG(payload, fixtures.BaseJPEG, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if err := os.WriteFile(filepath.Join(dir, name), b, 0o644); err != nil {
-			t.Fatal(err)
-		}
+		writeJPEG(t, filepath.Join(dir, name), ph)
 	}
 	out := filepath.Join(t.TempDir(), "report")
 	if code, _, stderr := captureRun("audit", dir, "--out", out, "--quiet", "--formats", "json"); code != 0 {
